@@ -1,0 +1,329 @@
+#include "flowsheet/yaml_reader.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <fstream>
+#include <limits>
+#include <sstream>
+
+namespace unchain {
+
+SourceLocation location_of(const YAML::Node& node, const std::string& file) {
+  const YAML::Mark mark = node.Mark();
+  if (mark.line < 0) return {file, 0, 0};
+  return {file, mark.line + 1, mark.column + 1};
+}
+
+namespace {
+
+// Walks the tree once: refuses over-deep nesting and duplicate keys, which
+// yaml-cpp accepts silently (the later value would win unseen).
+void check_structure(const YAML::Node& node, const std::string& file, int depth, DiagnosticList& diagnostics) {
+  if (depth > max_nesting_depth) {
+    diagnostics.error(location_of(node, file), "nesting deeper than " + std::to_string(max_nesting_depth) +
+                                                   " levels (expected a flatter file)");
+    return;
+  }
+  if (node.IsMap()) {
+    std::vector<std::string> seen;
+    for (const auto& item : node) {
+      if (item.first.IsScalar()) {
+        const std::string key = item.first.Scalar();
+        if (std::find(seen.begin(), seen.end(), key) != seen.end())
+          diagnostics.error(location_of(item.first, file), "duplicate key '" + key + "'");
+        seen.push_back(key);
+      }
+      check_structure(item.second, file, depth + 1, diagnostics);
+      if (diagnostics.has_errors() && depth > max_nesting_depth) return;
+    }
+  } else if (node.IsSequence()) {
+    for (const auto& item : node) check_structure(item, file, depth + 1, diagnostics);
+  }
+}
+
+void check_tabs(std::string_view text, const std::string& file, DiagnosticList& diagnostics) {
+  int line = 1;
+  bool at_line_start = true;
+  int column = 1;
+  for (char c : text) {
+    if (c == '\n') {
+      ++line;
+      column = 1;
+      at_line_start = true;
+      continue;
+    }
+    if (at_line_start && c == '\t') {
+      diagnostics.error({file, line, column}, "tab character in indentation (expected spaces; YAML forbids tabs)");
+      at_line_start = false;
+    } else if (c != ' ') {
+      at_line_start = false;
+    }
+    ++column;
+  }
+}
+
+}  // namespace
+
+YamlDocument parse_yaml_text(std::string_view text, std::string file_name) {
+  DiagnosticList diagnostics;
+  if (text.size() > max_input_bytes) {
+    diagnostics.error({file_name, 0, 0}, "file too large (expected at most " + std::to_string(max_input_bytes) +
+                                             " bytes, found " + std::to_string(text.size()) + ")");
+    diagnostics.throw_if_errors();
+  }
+  check_tabs(text, file_name, diagnostics);
+  diagnostics.throw_if_errors();
+  YamlDocument doc{std::move(file_name), {}};
+  // Cheap guard before parsing: yaml-cpp recurses on nesting, so a file of
+  // thousands of '[' must be refused before it reaches the parser.
+  int depth = 0;
+  int deepest = 0;
+  for (char c : text) {
+    if (c == '[' || c == '{') deepest = std::max(deepest, ++depth);
+    if (c == ']' || c == '}') --depth;
+  }
+  if (deepest > max_nesting_depth) {
+    diagnostics.error({doc.file, 0, 0}, "nesting deeper than " + std::to_string(max_nesting_depth) +
+                                            " levels (expected a flatter file)");
+    diagnostics.throw_if_errors();
+  }
+  try {
+    doc.root = YAML::Load(std::string(text));
+  } catch (const YAML::ParserException& e) {
+    diagnostics.error({doc.file, e.mark.line + 1, e.mark.column + 1}, "YAML syntax: " + e.msg);
+    diagnostics.throw_if_errors();
+  } catch (const YAML::Exception& e) {
+    diagnostics.error({doc.file, e.mark.line + 1, e.mark.column + 1}, std::string("YAML: ") + e.what());
+    diagnostics.throw_if_errors();
+  }
+  check_structure(doc.root, doc.file, 0, diagnostics);
+  diagnostics.throw_if_errors();
+  return doc;
+}
+
+YamlDocument load_yaml_file(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) throw InputError({path, 0, 0}, "cannot open file (expected a readable YAML file)");
+  std::ostringstream buffer;
+  buffer << in.rdbuf();
+  if (in.bad()) throw InputError({path, 0, 0}, "cannot read file");
+  return parse_yaml_text(buffer.str(), path);
+}
+
+std::size_t edit_distance(std::string_view a, std::string_view b) {
+  std::vector<std::size_t> previous(b.size() + 1), current(b.size() + 1);
+  for (std::size_t j = 0; j <= b.size(); ++j) previous[j] = j;
+  for (std::size_t i = 1; i <= a.size(); ++i) {
+    current[0] = i;
+    for (std::size_t j = 1; j <= b.size(); ++j) {
+      const std::size_t substitution = previous[j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1);
+      current[j] = std::min({previous[j] + 1, current[j - 1] + 1, substitution});
+    }
+    std::swap(previous, current);
+  }
+  return previous[b.size()];
+}
+
+std::string closest_match(std::string_view word, const std::vector<std::string>& candidates) {
+  std::string best;
+  std::size_t best_distance = std::numeric_limits<std::size_t>::max();
+  for (const auto& c : candidates) {
+    const std::size_t d = edit_distance(word, c);
+    if (d < best_distance) {
+      best_distance = d;
+      best = c;
+    }
+  }
+  // Suggest only when the candidate is plausibly what was meant.
+  const std::size_t limit = std::max<std::size_t>(2, word.size() / 3);
+  return best_distance <= limit ? best : std::string();
+}
+
+MappingReader::MappingReader(YAML::Node node, std::string file, std::string path, DiagnosticList& diagnostics,
+                             std::string currency)
+    : node_(std::move(node)),
+      file_(std::move(file)),
+      path_(std::move(path)),
+      diagnostics_(&diagnostics),
+      currency_(std::move(currency)) {
+  if (!node_.IsDefined() || node_.IsNull()) {
+    node_ = YAML::Node(YAML::NodeType::Map);
+    valid_ = true;
+    return;
+  }
+  if (!node_.IsMap()) {
+    diagnostics_->error(location_of(node_, file_),
+                        "'" + (path_.empty() ? std::string("document") : path_) +
+                            "' must be a mapping of keys to values (found " +
+                            (node_.IsSequence() ? "a list" : "a single value") + ")");
+    return;
+  }
+  valid_ = true;
+}
+
+bool MappingReader::has(std::string_view key) const {
+  return valid_ && node_[std::string(key)].IsDefined() && !node_[std::string(key)].IsNull();
+}
+
+SourceLocation MappingReader::location() const { return location_of(node_, file_); }
+
+SourceLocation MappingReader::location_of_key(std::string_view key) const {
+  if (valid_) {
+    for (const auto& item : node_)
+      if (item.first.IsScalar() && item.first.Scalar() == key) return location_of(item.second, file_);
+  }
+  return location();
+}
+
+std::string MappingReader::key_path(std::string_view key) const {
+  return path_.empty() ? std::string(key) : path_ + "." + std::string(key);
+}
+
+void MappingReader::accept(std::string_view key) { known_.insert(std::string(key)); }
+
+YAML::Node MappingReader::raw(std::string_view key) {
+  accept(key);
+  if (!valid_) return YAML::Node();
+  return node_[std::string(key)];
+}
+
+void MappingReader::error(std::string_view key, const std::string& message) const {
+  diagnostics_->error(key.empty() ? location() : location_of_key(key), message);
+}
+
+void MappingReader::warning(std::string_view key, const std::string& message) const {
+  diagnostics_->warning(key.empty() ? location() : location_of_key(key), message);
+}
+
+std::optional<std::string> MappingReader::optional_text(std::string_view key) {
+  accept(key);
+  if (!has(key)) return std::nullopt;
+  const YAML::Node n = node_[std::string(key)];
+  if (!n.IsScalar()) {
+    diagnostics_->error(location_of(n, file_), "'" + key_path(key) + "' must be a single value (expected text)");
+    return std::nullopt;
+  }
+  return n.Scalar();
+}
+
+std::string MappingReader::text(std::string_view key) {
+  if (!has(key)) {
+    accept(key);
+    error({}, "missing required key '" + key_path(key) + "' (expected text)");
+    return {};
+  }
+  return optional_text(key).value_or(std::string());
+}
+
+std::string MappingReader::text(std::string_view key, std::string fallback) {
+  return optional_text(key).value_or(std::move(fallback));
+}
+
+std::optional<double> MappingReader::optional_number(std::string_view key) {
+  accept(key);
+  if (!has(key)) return std::nullopt;
+  auto p = detail::parse_node(node_[std::string(key)], file_, key_path(key), *diagnostics_);
+  if (!p) return std::nullopt;
+  if (!p->dimension.is_dimensionless()) {
+    diagnostics_->error(location_of_key(key), "'" + key_path(key) + "': wrong dimension (expected a plain number, found " +
+                                                  p->dimension.describe() + " from unit \"" + p->unit_text + "\")");
+    return std::nullopt;
+  }
+  return p->si_value();
+}
+
+double MappingReader::number(std::string_view key) {
+  if (!has(key)) {
+    accept(key);
+    error({}, "missing required key '" + key_path(key) + "' (expected a number)");
+    return 0.0;
+  }
+  return optional_number(key).value_or(0.0);
+}
+
+double MappingReader::number(std::string_view key, double fallback) { return optional_number(key).value_or(fallback); }
+
+std::optional<double> MappingReader::optional_number_in(std::string_view key, double low, double high) {
+  auto v = optional_number(key);
+  if (v && (*v < low || *v > high)) {
+    std::ostringstream message;
+    message << "'" << key_path(key) << "' out of range (expected " << low << " to " << high << ", found " << *v << ")";
+    error(key, message.str());
+    return std::nullopt;
+  }
+  return v;
+}
+
+double MappingReader::number_in(std::string_view key, double fallback, double low, double high) {
+  return optional_number_in(key, low, high).value_or(fallback);
+}
+
+std::optional<bool> MappingReader::optional_flag(std::string_view key) {
+  accept(key);
+  if (!has(key)) return std::nullopt;
+  const YAML::Node n = node_[std::string(key)];
+  const std::string s = n.IsScalar() ? n.Scalar() : std::string();
+  if (s == "true" || s == "yes" || s == "on") return true;
+  if (s == "false" || s == "no" || s == "off") return false;
+  diagnostics_->error(location_of(n, file_), "'" + key_path(key) + "' must be true or false (found \"" + s + "\")");
+  return std::nullopt;
+}
+
+bool MappingReader::flag(std::string_view key, bool fallback) { return optional_flag(key).value_or(fallback); }
+
+std::optional<MappingReader> MappingReader::optional_mapping(std::string_view key) {
+  accept(key);
+  if (!has(key)) return std::nullopt;
+  MappingReader nested(node_[std::string(key)], file_, key_path(key), *diagnostics_, currency_);
+  if (!nested.is_valid()) return std::nullopt;
+  return nested;
+}
+
+MappingReader MappingReader::mapping(std::string_view key) {
+  if (!has(key)) {
+    accept(key);
+    error({}, "missing required section '" + key_path(key) + "'");
+    return MappingReader(YAML::Node(), file_, key_path(key), *diagnostics_, currency_);
+  }
+  auto m = optional_mapping(key);
+  if (m) return std::move(*m);
+  return MappingReader(YAML::Node(), file_, key_path(key), *diagnostics_, currency_);
+}
+
+void MappingReader::finish() {
+  if (!valid_) return;
+  const std::vector<std::string> candidates(known_.begin(), known_.end());
+  for (const auto& item : node_) {
+    if (!item.first.IsScalar()) continue;
+    const std::string key = item.first.Scalar();
+    if (known_.count(key) != 0) continue;
+    std::string message = "unknown key '" + key_path(key) + "'";
+    const std::string suggestion = closest_match(key, candidates);
+    if (!suggestion.empty()) message += " (did you mean '" + suggestion + "'?)";
+    diagnostics_->error(location_of(item.first, file_), message);
+  }
+}
+
+void MappingReader::report_conversion_error(std::string_view key, const UnitError& e) const {
+  diagnostics_->error(location_of_key(key), "'" + key_path(key) + "': " + e.what());
+}
+
+namespace detail {
+
+std::optional<ParsedQuantity> parse_node(const YAML::Node& node, const std::string& file, const std::string& key_path,
+                                         DiagnosticList& diagnostics) {
+  if (!node.IsScalar()) {
+    diagnostics.error(location_of(node, file), "'" + key_path + "' must be a single value such as \"0.5 kg\"");
+    return std::nullopt;
+  }
+  try {
+    return parse_quantity(node.Scalar());
+  } catch (const UnitError& e) {
+    diagnostics.error(location_of(node, file), "'" + key_path + "': " + e.what());
+    return std::nullopt;
+  }
+}
+
+}  // namespace detail
+
+}  // namespace unchain
