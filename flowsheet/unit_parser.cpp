@@ -210,12 +210,13 @@ class UnitExpressionParser {
     const double power = parse_exponent();
     UnitValue out;
     out.factor_count = 1;
-    if (is_currency_code(symbol)) {
+    // Units first: "BTU" is a unit, not a currency code.
+    const UnitDefinition* unit = find_unit(symbol);
+    if (unit == nullptr && is_currency_code(symbol)) {
       out.dimension.exponents[D::money] = power;
       out.currency = std::string(symbol);
       return out;
     }
-    const UnitDefinition* unit = find_unit(symbol);
     if (unit == nullptr)
       throw UnitError("unknown unit \"" + std::string(symbol) + "\"");
     UnitValue base;

@@ -4,6 +4,9 @@
 
 namespace unchain::units {
 
-void register_all_blocks(BlockRegistry& registry) { (void)registry; }
+void register_all_blocks(BlockRegistry& registry) {
+  register_generic_blocks(registry);
+  register_process_blocks(registry);
+}
 
 }  // namespace unchain::units

@@ -26,6 +26,12 @@ struct FlashResult {
   int iterations = 0;             // outer iterations on the activity coefficients
 };
 
+// K-value reported for a permanent gas (kind gas). Such a gas is taken as
+// non-condensable: the flash puts all of it in the vapour (none dissolves),
+// and solve_rachford_rice treats any K at or above this value, including
+// +infinity, as that limit. See docs/thermodynamics.md.
+inline constexpr double non_condensable_K = 1e12;
+
 // Rachford-Rice for given K-values and feed mole fractions z:
 //   sum z_i (K_i - 1) / (1 + V (K_i - 1)) = 0,
 // solved for V in [0, 1] (clamped to 0 or 1 when the feed is sub-cooled or
