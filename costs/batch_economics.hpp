@@ -1,0 +1,95 @@
+#pragma once
+// Figures per batch (or per hour, for a continuous case) and per kilogram
+// of monomer: energy by block and kind, solvent and water, waste streams,
+// the cost breakdown, credits, CO2e, yield, and the distance from the
+// thermodynamic minimum energy. Formulas: docs/costing.md.
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "costs/accounting.hpp"
+#include "costs/capital.hpp"
+#include "costs/minimum_energy.hpp"
+#include "costs/price_book.hpp"
+#include "flowsheet/solver.hpp"
+
+namespace unchain::costs {
+
+struct BlockEnergy {
+  std::string block;
+  std::string type;
+  double heat_J = 0;         // heat drawn from the supply (electric or fuel)
+  double electricity_J = 0;  // electricity drawn, electric heating included
+  double fuel_J = 0;         // fuel energy (heat drawn / burner efficiency) for fuel-heated blocks
+  double cooling_J = 0;      // heat rejected to cooling
+  double chiller_electricity_J = 0;
+  double purchased_J = 0;    // electricity + fuel + chiller electricity
+};
+
+struct WasteLine {
+  std::string stream;
+  std::string waste_class;
+  std::string description;   // what it is: its main components
+  double mass_kg = 0;
+  double volume_m3 = 0;      // condensed volume (aqueous wastes are priced by volume)
+  double disposal_cost = 0;
+  bool priced = false;
+};
+
+enum class CostCategory { energy, solvent, water, waste, labour, capital, materials, credit };
+const char* cost_category_name(CostCategory c);
+
+struct CostLine {
+  CostCategory category;
+  std::string item;
+  double quantity = 0;       // SI amount of what is bought or credited
+  std::string unit;          // SI unit of quantity
+  double cost = 0;           // case currency; credits negative
+};
+
+struct CostReport {
+  std::string basis_label;   // "batch" or "hour"
+  std::optional<double> monomer_kg;
+  std::optional<double> monomer_purity;       // mass fraction
+  std::string monomer_component;
+  double polymer_fed_kg = 0;
+  std::optional<double> monomer_yield;        // kg monomer / kg polymer fed
+
+  std::vector<BlockEnergy> energy_by_block;
+  BlockEnergy energy_total;
+
+  double solvent_bought_kg = 0;
+  double solvent_recovered_kg = 0;
+  double solvent_lost_kg = 0;                 // leaving the flowsheet in any product stream
+  double process_water_m3 = 0;
+  double cooling_water_m3 = 0;
+  double inert_gas_m3 = 0;
+
+  std::vector<WasteLine> wastes;
+  std::vector<CostLine> lines;
+  double total_cost = 0;                      // before credits
+  double total_credits = 0;                   // positive number
+  double net_cost = 0;                        // total cost less credits
+  std::optional<double> monomer_price;        // per kg, by the grade its purity reaches
+  double monomer_revenue = 0;
+  double margin = 0;                          // revenue less net cost
+  double co2e_kg = 0;
+  std::optional<MinimumEnergy> minimum_energy;
+  std::optional<double> efficiency_ratio;     // minimum / modelled purchased energy per kg
+  CapitalEstimate capital;
+  std::vector<std::string> missing_prices;    // things that cost money but have no price
+  std::vector<std::string> notes;
+
+  // Per kilogram of monomer, if the monomer is known and non-zero.
+  [[nodiscard]] std::optional<double> per_kg(double per_batch) const;
+};
+
+CostReport evaluate_costs(const Case& c, const SolveResult& result, const PriceBook& prices,
+                          const Accounting& accounting, const CapitalSettings& capital);
+
+// Reads prices, accounting and capital from the case and evaluates them.
+// Input errors are thrown together as InputError.
+CostReport evaluate_case_costs(const Case& c, const SolveResult& result);
+
+}  // namespace unchain::costs
