@@ -264,10 +264,6 @@ Component read_component(MappingReader& m) {
     p.melt_heat_capacity = read_polynomial(m, "melt_heat_capacity", c.molar_mass);
     c.polymer = p;
   }
-  // The heat of polymerization entry carries extra descriptive keys.
-  if (auto hp = m.node()["heat_of_polymerization"]; hp.IsMap()) {
-    (void)hp;
-  }
   m.finish();
   return c;
 }
