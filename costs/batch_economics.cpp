@@ -114,7 +114,9 @@ CostReport evaluate_costs(const Case& c, const SolveResult& result, const PriceB
 
     for (const MaterialUse& use : b.resources.materials) {
       if (use.kind == "process_water") r.process_water_m3 += use.unit == "kg" ? use.amount / water_density : use.amount;
-      else if (use.kind == "inert_gas") r.inert_gas_m3 += use.amount;
+      else if (use.kind == "inert_gas")
+        // Given by mass, taken as nitrogen (28.0134 g/mol) at 0 degC, 1 atm (22.414 L/mol).
+        r.inert_gas_m3 += use.unit == "kg" ? use.amount / 0.0280134 * 0.022414 : use.amount;
       else if (use.kind == "solvent_makeup") r.solvent_bought_kg += use.amount;
     }
   }

@@ -164,6 +164,15 @@ CapitalEstimate estimate_capital(const Case& c, const SolveResult& result, const
           method << "user price scaled by exponent " << price->exponent << " from " << price->reference_year;
           item.method = method.str();
           item.source = "case file";
+        } else if (correlation != nullptr && price == nullptr && !correlation->in_range(eq.size)) {
+          // A default correlation is not stretched beyond its range (a
+          // furnace correlation for a 450 W heating mantle would be absurd).
+          std::ostringstream note;
+          note << "no price given; the default correlation '" << correlation->name << "' covers "
+               << correlation->low << " to " << correlation->high << " " << correlation->size_unit << ", this item is "
+               << eq.size * correlation->size_scale << " " << correlation->size_unit;
+          item.method = "not costed";
+          item.note = note.str();
         } else if (correlation != nullptr) {
           if (correlation->currency != c.currency) {
             item.method = "not costed";

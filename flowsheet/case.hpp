@@ -26,6 +26,7 @@ struct StreamInfo {
   std::string destination_role;
   bool is_feed = false;
   Stream initial;  // feed contents, or the initial estimate of a tear stream
+  bool has_initial_estimate = false;  // solver.initial_estimates names this stream
 };
 
 struct BlockInstance {
@@ -48,6 +49,7 @@ struct SolverSettings {
   double wegstein_q_min = -5.0;
   double wegstein_q_max = 0.9;
   std::vector<std::string> tear_streams;  // named by the user; empty = chosen automatically
+  std::vector<SourceLocation> tear_stream_locations;  // where each was named (may be empty)
 };
 
 struct Case {
@@ -62,6 +64,7 @@ struct Case {
   std::vector<BlockInstance> blocks;
   SolverSettings solver;
   YAML::Node document;  // the whole document (after overrides), for later layers such as prices
+  std::vector<Diagnostic> warnings;  // found while loading (a feed that goes nowhere); solve() repeats them
 
   [[nodiscard]] std::optional<std::size_t> stream_index(std::string_view name) const;
   [[nodiscard]] std::optional<std::size_t> block_index(std::string_view name) const;

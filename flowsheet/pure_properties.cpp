@@ -9,13 +9,16 @@ namespace unchain {
 
 namespace {
 
+// The message names the side but not the temperature: the sink keeps each
+// distinct message once, so a recycle loop that passes slightly different
+// temperatures still reports the correlation once (see the header).
 void check_range(const Component& c, const char* property, const TemperatureRange& range, double T_K,
                  Warnings* warnings) {
   if (warnings == nullptr || range.contains(T_K)) return;
   std::ostringstream message;
   message.precision(5);
-  message << c.id << ": " << property << " correlation used at " << T_K << " K, outside its range "
-          << range.low_K << " to " << range.high_K << " K (extrapolated)";
+  message << c.id << ": " << property << " correlation used outside its range " << range.low_K << " to "
+          << range.high_K << " K (" << (T_K < range.low_K ? "below" : "above") << " it; extrapolated)";
   warnings->add(message.str());
 }
 
@@ -101,8 +104,8 @@ MolarEnergy enthalpy_of_vaporization(const Component& c, Temperature T, Warnings
   // Watson (1943) is reliable from the triple point to about 0.9 Tc.
   if (warnings != nullptr && T_K > 0.9 * Tc) {
     std::ostringstream message;
-    message << c.id << ": Watson scaling of the vaporization enthalpy used at " << T_K
-            << " K, above 0.9 Tc = " << 0.9 * Tc << " K";
+    message << c.id << ": Watson scaling of the vaporization enthalpy used above 0.9 Tc = " << 0.9 * Tc
+            << " K (less accurate towards the critical point)";
     warnings->add(message.str());
   }
   const double ratio = (Tc - T_K) / (Tc - Tb);
