@@ -2,6 +2,8 @@
 // Exit codes of the `unchain` program (docs/cli.md). Scripts rely on them,
 // so they never change meaning.
 
+#include <stdexcept>
+
 namespace unchain::app {
 
 inline constexpr int exit_success = 0;
@@ -21,5 +23,12 @@ inline constexpr int exit_not_converged = 3;
 // block that loses material or heat.
 inline constexpr double mass_closure_limit = 1e-6;
 inline constexpr double energy_closure_limit = 1e-4;
+
+// A wrong command-line argument found after parsing (an unknown component,
+// a value with a bad unit): exit code 2. The message names the option.
+class UsageError : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
 
 }  // namespace unchain::app

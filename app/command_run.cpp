@@ -1,0 +1,101 @@
+#include "app/command_run.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <ostream>
+
+#include "app/atomic_file.hpp"
+#include "app/command_check.hpp"
+#include "app/exit_codes.hpp"
+#include "app/results_json.hpp"
+#include "app/safety_notes.hpp"
+#include "app/summary_text.hpp"
+
+namespace unchain::app {
+
+namespace {
+
+void check_closure(const std::string& where, const BalanceClosure& b, std::vector<std::string>& problems) {
+  if (!(b.mass_relative_error <= mass_closure_limit))
+    problems.push_back(fmt::format("mass balance {} does not close: relative error {:.2e} > {:.0e}", where,
+                                   b.mass_relative_error, mass_closure_limit));
+  for (const auto& [element, error] : b.element_relative_error)
+    if (!(error <= mass_closure_limit))
+      problems.push_back(fmt::format("{} element balance {} does not close: relative error {:.2e} > {:.0e}", element,
+                                     where, error, mass_closure_limit));
+  if (!(b.energy_relative_error <= energy_closure_limit))
+    problems.push_back(fmt::format("energy balance {} does not close: relative error {:.2e} > {:.0e}", where,
+                                   b.energy_relative_error, energy_closure_limit));
+}
+
+CaseCautions case_cautions(const Case& c, const SolveResult& result) {
+  std::vector<std::string> types, block_cautions;
+  for (const auto& b : c.blocks) types.push_back(b.type);
+  for (const auto& b : result.blocks)
+    block_cautions.insert(block_cautions.end(), b.resources.cautions.begin(), b.resources.cautions.end());
+  return collect_cautions(types, block_cautions);
+}
+
+}  // namespace
+
+std::vector<std::string> open_balances(const SolveResult& result) {
+  std::vector<std::string> problems;
+  check_closure("of the whole flowsheet", result.overall, problems);
+  for (const auto& b : result.blocks) check_closure("of block '" + b.name + "'", b.balance, problems);
+  return problems;
+}
+
+CLI::App* add_run_command(CLI::App& parent, RunOptions& options) {
+  CLI::App* command = parent.add_subcommand(
+      "run", "Solve a case: mass, element and energy balances, with a summary and optional JSON results");
+  command->add_option("CASE", options.case_file, "The case file (YAML)")->required()->type_name("FILE");
+  command->add_option("-j,--json", options.json_file,
+                      "Write the results as JSON to FILE (written whole or not at all); '-' writes the JSON to "
+                      "standard output and the summary to standard error")
+      ->type_name("FILE|-");
+  add_override_option(*command, options.overrides);
+  command->add_flag("-q,--quiet", options.quiet, "Do not print the summary (warnings and errors still go to standard error)");
+  command->footer(
+      "Examples:\n  unchain run cases/my_case.yaml\n"
+      "  unchain run cases/my_case.yaml --json results.json --set blocks.pyrolysis.temperature=\"480 degC\"\n"
+      "  unchain run cases/my_case.yaml --json - --quiet | python3 -m json.tool\n"
+      "Exit codes: 0 solved and balanced, 2 bad input, 3 not converged or a balance that does not close.");
+  return command;
+}
+
+int run_run_command(const RunOptions& options, std::ostream& out, std::ostream& err) {
+  const Case c = load_case_for_command(options.case_file, options.overrides);
+  const SolveResult result = solve(c);
+  const CaseCautions cautions = case_cautions(c, result);
+  const std::vector<std::string> problems = open_balances(result);
+
+  // With the JSON on standard output, the summary moves to standard error so
+  // that stdout stays one parseable document.
+  const bool json_to_stdout = options.json_file == "-";
+  std::ostream& summary = json_to_stdout ? err : out;
+  if (!options.quiet) {
+    summary << run_summary_text(c, result, cautions);
+  } else {
+    for (const auto& w : result.warnings) err << "warning: " << w << "\n";
+  }
+
+  if (!problems.empty()) {
+    // Results that break conservation are not results: nothing is written.
+    for (const auto& p : problems) err << "error: " << p << "\n";
+    if (!options.json_file.empty() && !json_to_stdout)
+      err << "error: results not written to '" << options.json_file << "'\n";
+    return exit_not_converged;
+  }
+  if (!result.converged) {
+    err << "error: the solve did not converge\n";
+    return exit_not_converged;
+  }
+  if (!options.json_file.empty()) {
+    write_output_file(options.json_file, results_to_json(c, result, cautions.all()).dump(2) + "\n");
+    if (!json_to_stdout && !options.quiet) summary << "\nresults written to " << options.json_file << "\n";
+  }
+  return exit_success;
+}
+
+}  // namespace unchain::app
