@@ -7,6 +7,10 @@
 
 #include "app/atomic_file.hpp"
 #include "app/command_check.hpp"
+#include "app/costs_json.hpp"
+#include "app/costs_text.hpp"
+#include "app/csv_tables.hpp"
+#include "costs/batch_economics.hpp"
 #include "app/exit_codes.hpp"
 #include "app/results_json.hpp"
 #include "app/safety_notes.hpp"
@@ -54,6 +58,9 @@ CLI::App* add_run_command(CLI::App& parent, RunOptions& options) {
                       "Write the results as JSON to FILE (written whole or not at all); '-' writes the JSON to "
                       "standard output and the summary to standard error")
       ->type_name("FILE|-");
+  command->add_option("--csv", options.csv_folder,
+                      "Write CSV tables (streams, blocks, figures, energy, costs, wastes) into FOLDER, which must exist")
+      ->type_name("FOLDER");
   add_override_option(*command, options.overrides);
   command->add_flag("-q,--quiet", options.quiet, "Do not print the summary (warnings and errors still go to standard error)");
   command->footer(
@@ -69,13 +76,14 @@ int run_run_command(const RunOptions& options, std::ostream& out, std::ostream& 
   const SolveResult result = solve(c);
   const CaseCautions cautions = case_cautions(c, result);
   const std::vector<std::string> problems = open_balances(result);
+  const costs::CostReport report = costs::evaluate_case_costs(c, result);
 
   // With the JSON on standard output, the summary moves to standard error so
   // that stdout stays one parseable document.
   const bool json_to_stdout = options.json_file == "-";
   std::ostream& summary = json_to_stdout ? err : out;
   if (!options.quiet) {
-    summary << run_summary_text(c, result, cautions);
+    summary << run_summary_text(c, result, cautions, costs_summary_text(c, report));
   } else {
     for (const auto& w : result.warnings) err << "warning: " << w << "\n";
   }
@@ -92,8 +100,15 @@ int run_run_command(const RunOptions& options, std::ostream& out, std::ostream& 
     return exit_not_converged;
   }
   if (!options.json_file.empty()) {
-    write_output_file(options.json_file, results_to_json(c, result, cautions.all()).dump(2) + "\n");
+    Json json = results_to_json(c, result, cautions.all());
+    json["kpis"] = kpis_to_json(report);
+    json["costs"] = costs_to_json(c, report);
+    write_output_file(options.json_file, json.dump(2) + "\n");
     if (!json_to_stdout && !options.quiet) summary << "\nresults written to " << options.json_file << "\n";
+  }
+  if (!options.csv_folder.empty()) {
+    write_csv_tables(options.csv_folder, c, result, report);
+    if (!options.quiet) summary << "tables written to " << options.csv_folder << "\n";
   }
   return exit_success;
 }

@@ -15,6 +15,7 @@ namespace unchain::app {
 struct RunOptions {
   std::string case_file;
   std::string json_file;  // empty: no JSON; "-": standard output
+  std::string csv_folder; // empty: no CSV tables
   std::vector<std::string> overrides;
   bool quiet = false;
 };

@@ -55,7 +55,7 @@ std::string costs_summary_text(const Case& c, const costs::CostReport& r) {
   }
   if (r.minimum_energy) {
     out << "  thermodynamic minimum (heat polymer, depolymerize, vaporize at "
-        << format_celsius_brief(r.minimum_energy->reaction_temperature_K) << "; no losses): "
+        << format_celsius_brief(r.minimum_energy->reaction_temperature_K) << " degC; no losses): "
         << format_number(r.minimum_energy->per_kg_monomer_J / J_per_MJ) << " MJ/kg";
     if (r.efficiency_ratio) out << "; this set-up reaches " << format_number(100.0 * *r.efficiency_ratio, 3) << " % of it";
     out << "\n";

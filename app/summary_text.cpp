@@ -258,7 +258,8 @@ std::string balance_section(const SolveResult& result, Basis basis) {
 
 }  // namespace
 
-std::string run_summary_text(const Case& c, const SolveResult& result, const CaseCautions& cautions) {
+std::string run_summary_text(const Case& c, const SolveResult& result, const CaseCautions& cautions,
+                             const std::string& extra_sections) {
   std::string out;
   out += (c.title.empty() ? c.file : c.title) + "\n";
   out += std::string(std::min<std::size_t>(78, std::max<std::size_t>(1, (c.title.empty() ? c.file : c.title).size())),
@@ -295,6 +296,7 @@ std::string run_summary_text(const Case& c, const SolveResult& result, const Cas
   const std::string figures = block_figures(result);
   if (!figures.empty()) out += "\nBlock figures\n" + figures;
   out += "\nBalance closure (relative errors)\n" + balance_section(result, c.basis);
+  out += extra_sections;
 
   if (!result.warnings.empty()) {
     out += "\nWarnings\n";

@@ -43,6 +43,9 @@ std::string format_table(const std::vector<std::string>& headings, const std::ve
 
 // The summary printed by `unchain run`: case, basis, convergence, streams,
 // blocks, block figures, balance closure, warnings and cautions.
-std::string run_summary_text(const Case& c, const SolveResult& result, const CaseCautions& cautions);
+// `extra_sections` (the costing, for instance) goes after the balances and
+// before the warnings and cautions.
+std::string run_summary_text(const Case& c, const SolveResult& result, const CaseCautions& cautions,
+                             const std::string& extra_sections = {});
 
 }  // namespace unchain::app

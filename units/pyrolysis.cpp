@@ -416,6 +416,7 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
   auto fig = [&](std::string key, double value, std::string unit, std::string description) {
     resources.add_figure(std::move(key), value, std::move(unit), std::move(description));
   };
+  fig("reactor_temperature", in_kelvin(Tr), "K", "reactor set-point");
   fig("bulk_density_used", to_si(*bulk), "kg/m3", "bulk density of the feed as charged");
   fig("charge_capacity_kg", capacity_kg, "kg", "reactor volume x fill fraction x bulk density");
   fig("charge_per_run_kg", charge_per_run_kg, "kg", "feed charged per run (the batch split into equal runs)");
