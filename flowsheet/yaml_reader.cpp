@@ -139,15 +139,21 @@ std::string closest_match(std::string_view word, const std::vector<std::string>&
   return best_distance <= limit ? best : std::string();
 }
 
+namespace {
+bool absent(const YAML::Node& node) { return !node.IsDefined() || node.IsNull(); }
+}  // namespace
+
 MappingReader::MappingReader(YAML::Node node, std::string file, std::string path, DiagnosticList& diagnostics,
                              std::string currency)
-    : node_(std::move(node)),
+    : node_(absent(node) ? YAML::Node(YAML::NodeType::Map) : node),
       file_(std::move(file)),
       path_(std::move(path)),
       diagnostics_(&diagnostics),
       currency_(std::move(currency)) {
-  if (!node_.IsDefined() || node_.IsNull()) {
-    node_ = YAML::Node(YAML::NodeType::Map);
+  // An absent section reads as an empty mapping. (An absent key of a const
+  // node is an "invalid" node that must not be assigned to, hence the
+  // choice in the initializer.)
+  if (absent(node)) {
     valid_ = true;
     return;
   }
