@@ -308,6 +308,12 @@ ParsedQuantity parse_quantity(std::string_view text) {
   const char* first = trimmed.data() + number_start;
   const char* last = trimmed.data() + trimmed.size();
   auto [ptr, ec] = std::from_chars(first, last, number);
+  if (ec == std::errc::result_out_of_range)
+    throw UnitError("the number in \"" + std::string(trimmed) + "\" is out of range (expected a finite number)");
+  const std::string_view written = trimmed.substr(number_start);
+  for (std::string_view special : {".inf", "-.inf", ".Inf", ".INF", ".nan", ".NaN", ".NAN", "inf", "nan"})
+    if (written.substr(0, special.size()) == special)
+      throw UnitError("the number in \"" + std::string(trimmed) + "\" is not finite (expected a finite number)");
   if (ec != std::errc() || ptr == first)
     throw UnitError("missing number in \"" + std::string(trimmed) + "\": expected a number and a unit");
   if (!std::isfinite(number))

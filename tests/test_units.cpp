@@ -79,8 +79,11 @@ TEST_CASE("unknown units, missing numbers and malformed expressions") {
   CHECK_THROWS_WITH_AS(parse_quantity(""), doctest::Contains("empty value"), UnitError);
   CHECK_THROWS_WITH_AS(parse_quantity("3 W/m2 K"), doctest::Contains("ambiguous"), UnitError);
   CHECK_THROWS_WITH_AS(parse_quantity("3 J/(kg K"), doctest::Contains("missing ')'"), UnitError);
-  CHECK_THROWS_AS(parse_quantity("nan kg"), UnitError);
-  CHECK_THROWS_AS(parse_quantity("inf kg"), UnitError);
+  CHECK_THROWS_WITH_AS(parse_quantity("nan kg"), doctest::Contains("not finite"), UnitError);
+  CHECK_THROWS_WITH_AS(parse_quantity("inf kg"), doctest::Contains("not finite"), UnitError);
+  CHECK_THROWS_WITH_AS(parse_quantity(".inf kg"), doctest::Contains("not finite"), UnitError);
+  CHECK_THROWS_WITH_AS(parse_quantity("-.inf kg"), doctest::Contains("not finite"), UnitError);
+  CHECK_THROWS_WITH_AS(parse_quantity("1e400 kg"), doctest::Contains("out of range"), UnitError);
 }
 
 TEST_CASE("money is its own dimension with the case currency") {

@@ -62,9 +62,9 @@ CASES = [
      ["'feeds.cold_water.liquid.water': amount must not be negative", "found \"-2 kg\""]),
     ("non_finite_amount", "check", 2, (9, 21),
      ["'feeds.cold_water.liquid.water'", "the number in \"inf kg\" is not finite"]),
-    # ".inf kg" is refused too, though it is called a missing number (see the report).
+    # YAML's own spelling of infinity is refused the same way.
     ("non_finite_amount_yaml_inf", "check", 2, (9, 21),
-     ["'feeds.cold_water.liquid.water'", "\".inf kg\""]),
+     ["'feeds.cold_water.liquid.water'", "the number in \".inf kg\" is not finite"]),
     ("splitter_fractions_sum", "check", 2, (30, 16),
      ["'blocks.bottoms_splitter.fractions' must add up to 1", "found 0.9"]),
     ("stream_two_sources", "check", 2, (22, 24),
