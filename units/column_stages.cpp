@@ -54,6 +54,89 @@ Saturation antoine(const AntoineCorrelation& a, double T_K) {
 ModifiedRaoultKValues::ModifiedRaoultKValues(const ComponentSet& components, Pressure pressure)
     : components_(&components), pressure_Pa_(to_si(pressure)) {
   if (!(pressure_Pa_ > 0.0)) throw ModelError("column pressure must be positive");
+  // Members and pairs as unchain::activity_coefficients forms them: every
+  // component that can be a fluid, at any mole fraction (so the pair set
+  // does not depend on the composition), pairs in the order of the set.
+  for (std::size_t i = 0; i < components.size(); ++i)
+    if (!components[i].is_condensed_only()) liquid_members_.push_back(static_cast<Index>(i));
+  auto local = [&](const std::string& id) -> Index {
+    for (std::size_t a = 0; a < liquid_members_.size(); ++a)
+      if (components[static_cast<std::size_t>(liquid_members_[a])].id == id) return static_cast<Index>(a);
+    return -1;
+  };
+  for (const auto& pair : components.nrtl_pairs()) {
+    const Index i = local(pair.first);
+    const Index j = local(pair.second);
+    if (i < 0 || j < 0 || i == j) continue;
+    auto in_pair_set = [&](Index member) {
+      const auto at = std::find(paired_members_.begin(), paired_members_.end(), member);
+      if (at != paired_members_.end()) return static_cast<Index>(at - paired_members_.begin());
+      paired_members_.push_back(member);
+      return static_cast<Index>(paired_members_.size() - 1);
+    };
+    const Index pi = in_pair_set(i);
+    const Index pj = in_pair_set(j);
+    active_pairs_.push_back({pi, pj, pair.a12, pair.b12, pair.a21, pair.b21, pair.alpha});
+  }
+}
+
+Eigen::VectorXd ModifiedRaoultKValues::activity(const Eigen::VectorXd& x, double T_K) const {
+  const Index n = x.size();
+  Eigen::VectorXd gamma = Eigen::VectorXd::Ones(n);
+  if (static_cast<std::size_t>(n) != components_->size())
+    return activity_coefficients(*components_, x, kelvin(T_K), nullptr);  // throws, saying why
+  if (active_pairs_.empty()) return gamma;  // ideal liquid, as activity_coefficients finds
+  const Index m = static_cast<Index>(liquid_members_.size());
+  double total = 0.0;
+  for (const Index i : liquid_members_) {
+    const double xi = x[i];
+    if (!(xi >= 0.0) || !std::isfinite(xi))
+      return activity_coefficients(*components_, x, kelvin(T_K), nullptr);  // reports what is wrong
+    total += xi;
+  }
+  if (!(total > 0.0)) return gamma;
+  Eigen::VectorXd xm(m);
+  for (Index a = 0; a < m; ++a) xm[a] = x[liquid_members_[static_cast<std::size_t>(a)]] / total;
+  // Renon and Prausnitz (1968), as in flowsheet/thermo/activity.cpp:
+  // tau_ij = a_ij + b_ij / T, G_ij = exp(-alpha_ij tau_ij), ideal pairs
+  // tau = 0, G = 1; ln gamma_i = S_i / D_i + sum_j x_j G_ij / D_j
+  // (tau_ij - S_j / D_j), D_j = sum_k x_k G_kj, S_j = sum_k x_k tau_kj G_kj.
+  // Only the few members in a pair (set P) have tau != 0, so the sums are
+  // taken over P and the rest in closed form: for j outside P, S_j = 0 and
+  // D_j = sum x; for i outside P, ln gamma_i = -sum_{j in P} x_j S_j / D_j^2.
+  const Index p = static_cast<Index>(paired_members_.size());
+  Eigen::MatrixXd tau = Eigen::MatrixXd::Zero(p, p);
+  Eigen::MatrixXd G = Eigen::MatrixXd::Ones(p, p);
+  for (const ActivePair& q : active_pairs_) {
+    tau(q.i, q.j) = q.a12 + q.b12 / T_K;
+    tau(q.j, q.i) = q.a21 + q.b21 / T_K;
+    G(q.i, q.j) = std::exp(-q.alpha * tau(q.i, q.j));
+    G(q.j, q.i) = std::exp(-q.alpha * tau(q.j, q.i));
+  }
+  const double x_sum = xm.sum();
+  Eigen::VectorXd xp(p), D(p), S(p);
+  for (Index a = 0; a < p; ++a) xp[a] = xm[paired_members_[static_cast<std::size_t>(a)]];
+  const double x_outside = x_sum - xp.sum();
+  for (Index j = 0; j < p; ++j) {
+    double d = x_outside, s = 0.0;
+    for (Index k = 0; k < p; ++k) {
+      d += xp[k] * G(k, j);
+      s += xp[k] * tau(k, j) * G(k, j);
+    }
+    D[j] = d;
+    S[j] = s;
+  }
+  double ln_gamma_outside = 0.0;
+  for (Index j = 0; j < p; ++j) ln_gamma_outside -= xp[j] * S[j] / (D[j] * D[j]);
+  const double gamma_outside = std::exp(ln_gamma_outside);
+  for (Index a = 0; a < m; ++a) gamma[liquid_members_[static_cast<std::size_t>(a)]] = gamma_outside;
+  for (Index i = 0; i < p; ++i) {
+    double ln_gamma = S[i] / D[i];
+    for (Index j = 0; j < p; ++j) ln_gamma += xp[j] * G(i, j) / D[j] * (tau(i, j) - S[j] / D[j]);
+    gamma[liquid_members_[static_cast<std::size_t>(paired_members_[static_cast<std::size_t>(i)])]] =
+        std::exp(ln_gamma);
+  }
+  return gamma;
 }
 
 Temperature ModifiedRaoultKValues::bubble_temperature(const Eigen::VectorXd& x) const {
@@ -65,7 +148,7 @@ Temperature ModifiedRaoultKValues::dew_temperature(const Eigen::VectorXd& y) con
 }
 
 Eigen::VectorXd ModifiedRaoultKValues::k_values(const Eigen::VectorXd& x, Temperature T) const {
-  const Eigen::VectorXd gamma = activity_coefficients(*components_, x, T, nullptr);
+  const Eigen::VectorXd gamma = activity(x, in_kelvin(T));
   Eigen::VectorXd K = Eigen::VectorXd::Zero(x.size());
   for (std::size_t i = 0; i < components_->size(); ++i) {
     const Component& c = (*components_)[i];
@@ -118,7 +201,7 @@ StageEquilibrium ModifiedRaoultKValues::bubble_point(const Eigen::VectorXd& x_in
   constexpr double temperature_tolerance_K = 1e-10;
   for (int step = 0; step < max_newton_steps; ++step) {
     if (!(T_K > 100.0) || !std::isfinite(T_K)) return fallback();
-    gamma = activity_coefficients(components, x, kelvin(T_K), nullptr);
+    gamma = activity(x, T_K);
     saturation(T_K);
     double sum = 0.0, derivative = 0.0;
     for (Index k = 0; k < x.size(); ++k) {
@@ -133,7 +216,7 @@ StageEquilibrium ModifiedRaoultKValues::bubble_point(const Eigen::VectorXd& x_in
     const double change = std::clamp(-std::log(sum / pressure_Pa_) * sum / derivative, -25.0, 25.0);
     T_K += change;
     if (std::abs(change) < temperature_tolerance_K) {
-      gamma = activity_coefficients(components, x, kelvin(T_K), nullptr);
+      gamma = activity(x, T_K);
       saturation(T_K);
       StageEquilibrium e;
       e.temperature = kelvin(T_K);

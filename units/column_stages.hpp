@@ -80,8 +80,22 @@ class ModifiedRaoultKValues final : public KValueModel {
   [[nodiscard]] Pressure pressure() const { return pascal(pressure_Pa_); }
 
  private:
+  // The NRTL pairs of the set that act in the liquid, resolved to indices
+  // once: unchain::activity_coefficients looks the pairs up by name and
+  // builds dense matrices on every call, which dominated the column's time.
+  // activity() evaluates the same equations, summing only over the
+  // members that are in a pair.
+  struct ActivePair {
+    Eigen::Index i = 0, j = 0;  // positions in paired_members_
+    double a12 = 0, b12 = 0, a21 = 0, b21 = 0, alpha = 0;
+  };
+  [[nodiscard]] Eigen::VectorXd activity(const Eigen::VectorXd& x, double T_K) const;
+
   const ComponentSet* components_;
   double pressure_Pa_;
+  std::vector<Eigen::Index> liquid_members_;  // components that can be in the liquid
+  std::vector<Eigen::Index> paired_members_;  // positions among liquid_members_ of those in a pair
+  std::vector<ActivePair> active_pairs_;      // empty: the liquid is ideal, gamma = 1
 };
 
 // Constant relative volatilities alpha_i: K_i = alpha_i / sum_j alpha_j x_j,
