@@ -6,6 +6,7 @@ must leave an existing --json output file untouched and no temporary file.
 
 Run as: /usr/bin/python3 test_bad_inputs.py PATH_TO_unchain SOURCE_DIR
 """
+import pathlib
 import glob
 import os
 import subprocess
@@ -135,30 +136,7 @@ def test_fixtures(workdir):
             assert_json_untouched([path], code_expected, name, workdir)
 
 
-GOOD_CASE = """\
-# Invented example for the tests: two feeds mixed and heated.
-case:
-  title: "Mix and heat (invented example)"
-  basis: batch
-components: [water, acetone]
-feeds:
-  cold_water:
-    temperature: "15 degC"
-    liquid: {water: "2 kg"}
-  solvent:
-    temperature: "20 degC"
-    liquid: {acetone: "1 kg"}
-blocks:
-  mix:
-    type: mixer
-    inlets: {feeds: [cold_water, solvent]}
-    outlets: {product: mixed}
-  warm:
-    type: heater
-    outlet_temperature: "45 degC"
-    inlets: {feed: mixed}
-    outlets: {product: warm_mixture}
-"""
+GOOD_CASE = (pathlib.Path(__file__).parent / "mix_and_heat.yaml").read_text()
 
 
 def test_generated(workdir):

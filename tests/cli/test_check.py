@@ -2,6 +2,7 @@
 
 Run as: /usr/bin/python3 test_check.py PATH_TO_unchain SOURCE_DIR
 """
+import pathlib
 import os
 import re
 import subprocess
@@ -21,30 +22,7 @@ def run(*args):
     return subprocess.run([UNCHAIN, *args], capture_output=True, text=True, timeout=120)
 
 
-GOOD_CASE = """\
-# Invented example for the tests: two feeds mixed and heated.
-case:
-  title: "Mix and heat (invented example)"
-  basis: batch
-components: [water, acetone]
-feeds:
-  cold_water:
-    temperature: "15 degC"
-    liquid: {water: "2 kg"}
-  solvent:
-    temperature: "20 degC"
-    liquid: {acetone: "1 kg"}
-blocks:
-  mix:
-    type: mixer
-    inlets: {feeds: [cold_water, solvent]}
-    outlets: {product: mixed}
-  warm:
-    type: heater
-    outlet_temperature: "45 degC"
-    inlets: {feed: mixed}
-    outlets: {product: warm_mixture}
-"""
+GOOD_CASE = (pathlib.Path(__file__).parent / "mix_and_heat.yaml").read_text()
 
 # Each bad case: (name, text, the line the error must point at, words the message must hold).
 BAD_CASES = [

@@ -3,6 +3,7 @@ cases written here from the generic blocks (mixer, heater, splitter).
 
 Run as: /usr/bin/python3 test_run.py PATH_TO_unchain SOURCE_DIR
 """
+import pathlib
 import glob
 import json
 import os
@@ -103,30 +104,7 @@ def run_case(name, path, folder):
     return doc, r
 
 
-MIX_AND_HEAT = """\
-# Invented example for the tests: water and acetone mixed, then heated.
-case:
-  title: "Mix and heat (invented example)"
-  basis: batch
-components: [water, acetone]
-feeds:
-  cold_water:
-    temperature: "15 degC"
-    liquid: {water: "2 kg"}
-  solvent:
-    temperature: "20 degC"
-    liquid: {acetone: "1 kg"}
-blocks:
-  mix:
-    type: mixer
-    inlets: {feeds: [cold_water, solvent]}
-    outlets: {product: mixed}
-  warm:
-    type: heater
-    outlet_temperature: "45 degC"
-    inlets: {feed: mixed}
-    outlets: {product: warm_mixture}
-"""
+MIX_AND_HEAT = (pathlib.Path(__file__).parent / "mix_and_heat.yaml").read_text()
 
 HEAT_WATER = """\
 # Invented example for the tests: 2 kg of water heated from 15 to 45 degC.
