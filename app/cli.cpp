@@ -8,10 +8,17 @@
 #include <vector>
 
 #include "app/atomic_file.hpp"
+#include "app/command_blocks.hpp"
 #include "app/command_check.hpp"
+#include "app/command_compare.hpp"
 #include "app/command_components.hpp"
 #include "app/command_property.hpp"
+#include "app/command_report.hpp"
 #include "app/command_run.hpp"
+#include "app/command_scale.hpp"
+#include "app/command_sensitivity.hpp"
+#include "app/command_sweep.hpp"
+#include "app/command_uncertainty.hpp"
 #include "app/exit_codes.hpp"
 #include "flowsheet/diagnostics.hpp"
 #include "flowsheet/unit_parser.hpp"
@@ -29,6 +36,7 @@ constexpr const char* program_description =
 constexpr const char* program_footer =
     "Examples:\n"
     "  unchain components                          list the built-in component data\n"
+    "  unchain blocks                              list the block types a case can use\n"
     "  unchain property styrene -T \"145 degC\"      properties of styrene at 145 degC\n"
     "  unchain check cases/my_case.yaml            check a case file\n"
     "  unchain run cases/my_case.yaml --json out.json\n"
@@ -70,13 +78,22 @@ int run_cli(int argc, char** argv) {
     app.require_subcommand(1);
 
     ComponentsOptions components;
+    BlocksOptions blocks;
     PropertyOptions property;
     CheckOptions check;
     RunOptions run;
+    ReportOptions report;
     CLI::App* components_command = add_components_command(app, components);
+    CLI::App* blocks_command = add_blocks_command(app, blocks);
     CLI::App* property_command = add_property_command(app, property);
     CLI::App* check_command = add_check_command(app, check);
     CLI::App* run_command = add_run_command(app, run);
+    CLI::App* report_command = add_report_command(app, report);
+    ScaleOptions scale; CLI::App* scale_command = add_scale_command(app, scale);
+    SweepOptions sweep; CLI::App* sweep_command = add_sweep_command(app, sweep);
+    CompareOptions compare; CLI::App* compare_command = add_compare_command(app, compare);
+    UncertaintyOptions uncertainty; CLI::App* uncertainty_command = add_uncertainty_command(app, uncertainty);
+    SensitivityOptions sensitivity; CLI::App* sensitivity_command = add_sensitivity_command(app, sensitivity);
 
     if (reject_unknown_command(app, argc, argv)) return exit_input_error;
     try {
@@ -89,9 +106,16 @@ int run_cli(int argc, char** argv) {
     }
 
     if (components_command->parsed()) return run_components_command(components, std::cout);
+    if (blocks_command->parsed()) return run_blocks_command(blocks, std::cout);
     if (property_command->parsed()) return run_property_command(property, std::cout, std::cerr);
     if (check_command->parsed()) return run_check_command(check, std::cout);
     if (run_command->parsed()) return run_run_command(run, std::cout, std::cerr);
+    if (report_command->parsed()) return run_report_command(report, std::cout, std::cerr);
+    if (scale_command->parsed()) return run_scale_command(scale, std::cout, std::cerr);
+    if (sweep_command->parsed()) return run_sweep_command(sweep, std::cout, std::cerr);
+    if (compare_command->parsed()) return run_compare_command(compare, std::cout, std::cerr);
+    if (uncertainty_command->parsed()) return run_uncertainty_command(uncertainty, std::cout, std::cerr);
+    if (sensitivity_command->parsed()) return run_sensitivity_command(sensitivity, std::cout, std::cerr);
     std::cerr << "error: no command given (run 'unchain --help')\n";
     return exit_input_error;
   } catch (const InputError& e) {

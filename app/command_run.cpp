@@ -11,27 +11,16 @@
 #include "app/costs_text.hpp"
 #include "app/csv_tables.hpp"
 #include "costs/batch_economics.hpp"
+#include "costs/closure_check.hpp"
 #include "app/exit_codes.hpp"
 #include "app/results_json.hpp"
 #include "app/safety_notes.hpp"
 #include "app/summary_text.hpp"
+#include "flowsheet/finite_check.hpp"
 
 namespace unchain::app {
 
 namespace {
-
-void check_closure(const std::string& where, const BalanceClosure& b, std::vector<std::string>& problems) {
-  if (!(b.mass_relative_error <= mass_closure_limit))
-    problems.push_back(fmt::format("mass balance {} does not close: relative error {:.2e} > {:.0e}", where,
-                                   b.mass_relative_error, mass_closure_limit));
-  for (const auto& [element, error] : b.element_relative_error)
-    if (!(error <= mass_closure_limit))
-      problems.push_back(fmt::format("{} element balance {} does not close: relative error {:.2e} > {:.0e}", element,
-                                     where, error, mass_closure_limit));
-  if (!(b.energy_relative_error <= energy_closure_limit))
-    problems.push_back(fmt::format("energy balance {} does not close: relative error {:.2e} > {:.0e}", where,
-                                   b.energy_relative_error, energy_closure_limit));
-}
 
 CaseCautions case_cautions(const Case& c, const SolveResult& result) {
   std::vector<std::string> types, block_cautions;
@@ -43,12 +32,7 @@ CaseCautions case_cautions(const Case& c, const SolveResult& result) {
 
 }  // namespace
 
-std::vector<std::string> open_balances(const SolveResult& result) {
-  std::vector<std::string> problems;
-  check_closure("of the whole flowsheet", result.overall, problems);
-  for (const auto& b : result.blocks) check_closure("of block '" + b.name + "'", b.balance, problems);
-  return problems;
-}
+std::vector<std::string> open_balances(const SolveResult& result) { return costs::open_balances(result); }
 
 CLI::App* add_run_command(CLI::App& parent, RunOptions& options) {
   CLI::App* command = parent.add_subcommand(
@@ -74,9 +58,22 @@ CLI::App* add_run_command(CLI::App& parent, RunOptions& options) {
 int run_run_command(const RunOptions& options, std::ostream& out, std::ostream& err) {
   const Case c = load_case_for_command(options.case_file, options.overrides);
   const SolveResult result = solve(c);
+  // A NaN or infinity is a model failure, not a result: name it, write nothing.
+  if (const std::vector<std::string> non_finite = find_non_finite_values(c, result); !non_finite.empty()) {
+    for (const auto& p : non_finite) err << "error: " << p << "\n";
+    if (!options.json_file.empty() && options.json_file != "-")
+      err << "error: results not written to '" << options.json_file << "'\n";
+    return exit_not_converged;
+  }
   const CaseCautions cautions = case_cautions(c, result);
   const std::vector<std::string> problems = open_balances(result);
   const costs::CostReport report = costs::evaluate_case_costs(c, result);
+  Json json = results_to_json(c, result, cautions.all());
+  json["kpis"] = kpis_to_json(report);
+  json["costs"] = costs_to_json(c, report);
+  // The summary shows the numbers the JSON holds: none may be NaN or infinite
+  // (a bug past the finite check; exit 1 rather than a printed "nan").
+  require_finite_json(json);
 
   // With the JSON on standard output, the summary moves to standard error so
   // that stdout stays one parseable document.
@@ -100,9 +97,6 @@ int run_run_command(const RunOptions& options, std::ostream& out, std::ostream& 
     return exit_not_converged;
   }
   if (!options.json_file.empty()) {
-    Json json = results_to_json(c, result, cautions.all());
-    json["kpis"] = kpis_to_json(report);
-    json["costs"] = costs_to_json(c, report);
     write_output_file(options.json_file, json.dump(2) + "\n");
     if (!json_to_stdout && !options.quiet) summary << "\nresults written to " << options.json_file << "\n";
   }

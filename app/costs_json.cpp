@@ -13,6 +13,43 @@ Json optional_number(const std::optional<double>& v) { return v ? Json(*v) : Jso
 
 Json per_kg(const costs::CostReport& r, double per_batch) { return optional_number(r.per_kg(per_batch)); }
 
+Json cash_flow_to_json(const costs::CashFlowResult& cf) {
+  Json j;
+  j["npv"] = cf.npv;
+  j["irr"] = optional_number(cf.irr);
+  j["payback_years"] = optional_number(cf.payback_years);
+  j["minimum_selling_price"] = optional_number(cf.minimum_selling_price);
+  j["discount_rate"] = cf.discount_rate;
+  j["fixed_capital"] = cf.inputs.fixed_capital;
+  j["working_capital"] = cf.working_capital;
+  j["salvage_value"] = cf.salvage_value;
+  j["annual_monomer_kg"] = cf.inputs.annual_monomer_kg;
+  j["monomer_price_per_kg"] = cf.inputs.monomer_price;
+  j["annual_other_revenue"] = cf.inputs.annual_other_revenue;
+  j["annual_operating_cost"] = cf.inputs.annual_operating_cost;
+  Json years = Json::array();
+  for (const auto& y : cf.years) {
+    Json row;
+    row["year"] = y.year;
+    row["operating_year"] = y.operating_year;
+    row["capacity"] = y.capacity;
+    row["revenue"] = y.revenue;
+    row["operating_cost"] = y.operating_cost;
+    row["depreciation"] = y.depreciation;
+    row["taxable_income"] = y.taxable_income;
+    row["tax"] = y.tax;
+    row["loss_carried_forward"] = y.loss_carried_forward;
+    row["capital"] = y.capital;
+    row["net_cash_flow"] = y.net_cash_flow;
+    row["discounted_cash_flow"] = y.discounted_cash_flow;
+    row["cumulative_discounted"] = y.cumulative_discounted;
+    years.push_back(row);
+  }
+  j["years"] = years;
+  j["notes"] = cf.notes;
+  return j;
+}
+
 }  // namespace
 
 Json kpis_to_json(const costs::CostReport& r) {
@@ -69,6 +106,12 @@ Json kpis_to_json(const costs::CostReport& r) {
     k["minimum_energy_MJ_per_kg"] = nullptr;
   }
   k["efficiency_ratio"] = optional_number(r.efficiency_ratio);
+  // From the discounted cash flow; null without an economics section.
+  const auto* cf = r.cash_flow ? &*r.cash_flow : nullptr;
+  k["npv"] = cf ? Json(cf->npv) : Json(nullptr);
+  k["irr"] = cf ? optional_number(cf->irr) : Json(nullptr);
+  k["payback_years"] = cf ? optional_number(cf->payback_years) : Json(nullptr);
+  k["minimum_selling_price"] = cf ? optional_number(cf->minimum_selling_price) : Json(nullptr);
 
   Json blocks = Json::array();
   for (const auto& b : r.energy_by_block) {
@@ -155,6 +198,7 @@ Json costs_to_json(const Case& c, const costs::CostReport& r) {
   capital["capital_charge_per_basis"] = r.capital.capital_charge_per_batch;
   capital["warnings"] = r.capital.warnings;
   j["capital"] = capital;
+  j["cash_flow"] = r.cash_flow ? cash_flow_to_json(*r.cash_flow) : Json(nullptr);
   j["missing_prices"] = r.missing_prices;
   j["notes"] = r.notes;
   return j;

@@ -17,6 +17,40 @@ std::string per_kg_text(const costs::CostReport& r, double per_batch, int signif
   return v ? format_number(*v, significant) : std::string("-");
 }
 
+std::string percent(double fraction) { return format_number(100.0 * fraction, 3) + " %"; }
+
+void cash_flow_text(std::ostringstream& out, const std::string& cur, const costs::CashFlowResult& cf) {
+  int construction = 0, operating = 0;
+  for (const auto& y : cf.years) (y.operating_year == 0 ? construction : operating) += 1;
+  out << "\nDiscounted cash flow (" << cur << "; amounts at the end of each year, t = 0 at the end of the first "
+      << "construction year)\n";
+  out << "  fixed capital " << format_number(cf.inputs.fixed_capital) << " over " << construction
+      << " construction year(s), working capital " << format_number(cf.working_capital) << ", salvage "
+      << format_number(cf.salvage_value) << "; " << operating << " operating years\n";
+  out << "  a year at full capacity: " << format_number(cf.inputs.annual_monomer_kg) << " kg of monomer at "
+      << format_number(cf.inputs.monomer_price) << " " << cur << "/kg, other revenue "
+      << format_number(cf.inputs.annual_other_revenue) << ", operating cost "
+      << format_number(cf.inputs.annual_operating_cost) << " " << cur << "/yr\n";
+  out << "  NPV at " << percent(cf.discount_rate) << " a year: " << format_number(cf.npv) << " " << cur << "; IRR "
+      << (cf.irr ? percent(*cf.irr) : std::string("none")) << "; payback "
+      << (cf.payback_years ? format_number(*cf.payback_years, 3) + " yr from start-up"
+                           : std::string("not within the project life"))
+      << "\n";
+  if (cf.minimum_selling_price)
+    out << "  minimum monomer selling price (NPV zero): " << format_number(*cf.minimum_selling_price) << " " << cur
+        << "/kg\n";
+  std::vector<std::vector<std::string>> rows;
+  for (const auto& y : cf.years)
+    rows.push_back({std::to_string(y.year), y.operating_year ? std::to_string(y.operating_year) : std::string("build"),
+                    format_number(y.capacity, 3), format_number(y.revenue), format_number(y.operating_cost),
+                    format_number(y.depreciation), format_number(y.tax), format_number(y.capital),
+                    format_number(y.net_cash_flow), format_number(y.cumulative_discounted)});
+  out << format_table({"t yr", "operating year", "capacity", "revenue " + cur, "operating cost " + cur,
+                       "depreciation " + cur, "tax " + cur, "capital " + cur, "net " + cur, "cumulative PV " + cur},
+                      rows, "rrrrrrrrrr");
+  for (const auto& note : cf.notes) out << "  note: " << note << "\n";
+}
+
 }  // namespace
 
 std::string costs_summary_text(const Case& c, const costs::CostReport& r) {
@@ -112,6 +146,7 @@ std::string costs_summary_text(const Case& c, const costs::CostReport& r) {
     for (const auto& i : r.capital.items)
       if (!i.note.empty()) out << "  note: " << i.block << " / " << i.item << ": " << i.note << "\n";
   }
+  if (r.cash_flow) cash_flow_text(out, cur, *r.cash_flow);
   return out.str();
 }
 

@@ -1,7 +1,7 @@
 #pragma once
 // The human summary of the costing: energy per kg of monomer by block and
-// kind, solvent and water, wastes, the cost breakdown, credits, capital and
-// the distance from the thermodynamic minimum.
+// kind, solvent and water, wastes, the cost breakdown, credits, capital,
+// the distance from the thermodynamic minimum and the discounted cash flow.
 
 #include <string>
 

@@ -126,6 +126,21 @@ void write_csv_tables(const std::string& folder, const Case& c, const SolveResul
   if (report.minimum_energy)
     kpis.row({"minimum_energy", "", "", csv_number(report.minimum_energy->per_kg_monomer_J / 1e6), "MJ/kg"});
 
+  // The discounted cash flow, one row per year (only the headings when the
+  // case has no economics section or no priced monomer).
+  CsvTable cash_flow({"t_yr", "operating_year", "capacity_fraction", "revenue_" + cur, "operating_cost_" + cur,
+                      "depreciation_" + cur, "taxable_income_" + cur, "tax_" + cur, "loss_carried_forward_" + cur,
+                      "capital_" + cur, "net_cash_flow_" + cur, "discounted_cash_flow_" + cur,
+                      "cumulative_discounted_" + cur});
+  if (report.cash_flow) {
+    for (const auto& y : report.cash_flow->years)
+      cash_flow.row({std::to_string(y.year), std::to_string(y.operating_year), csv_number(y.capacity),
+                     csv_number(y.revenue), csv_number(y.operating_cost), csv_number(y.depreciation),
+                     csv_number(y.taxable_income), csv_number(y.tax), csv_number(y.loss_carried_forward),
+                     csv_number(y.capital), csv_number(y.net_cash_flow), csv_number(y.discounted_cash_flow),
+                     csv_number(y.cumulative_discounted)});
+  }
+
   const fs::path dir(folder);
   write_output_file((dir / "streams.csv").string(), streams.text());
   write_output_file((dir / "blocks.csv").string(), blocks.text());
@@ -134,6 +149,7 @@ void write_csv_tables(const std::string& folder, const Case& c, const SolveResul
   write_output_file((dir / "costs.csv").string(), cost_table.text());
   write_output_file((dir / "wastes.csv").string(), wastes.text());
   write_output_file((dir / "kpis.csv").string(), kpis.text());
+  write_output_file((dir / "cash_flow.csv").string(), cash_flow.text());
 }
 
 }  // namespace unchain::app

@@ -1,7 +1,8 @@
 #pragma once
 // Tidy CSV tables for spreadsheets and plotting scripts: one row per
 // stream, phase and component; per block; per block figure; per energy
-// line; per cost line; per waste stream; per key figure. Units are in the
+// line; per cost line; per waste stream; per key figure; per year of the
+// discounted cash flow. Units are in the
 // column headings. Each file is written whole or not at all.
 
 #include <string>
@@ -17,7 +18,7 @@ std::string csv_field(const std::string& text);
 std::string csv_number(double value);
 
 // Writes streams.csv, blocks.csv, block_figures.csv, energy.csv, costs.csv,
-// wastes.csv and kpis.csv into `folder` (which must exist).
+// wastes.csv, kpis.csv and cash_flow.csv into `folder` (which must exist).
 void write_csv_tables(const std::string& folder, const Case& c, const SolveResult& result,
                       const costs::CostReport& report);
 

@@ -1,5 +1,8 @@
 #include "app/results_json.hpp"
 
+#include <cmath>
+#include <stdexcept>
+
 namespace unchain::app {
 
 namespace {
@@ -9,6 +12,16 @@ Json masses_by_id(const ComponentSet& components, const Eigen::VectorXd& masses)
   for (std::size_t i = 0; i < components.size() && i < static_cast<std::size_t>(masses.size()); ++i)
     out[components[i].id] = masses[static_cast<Eigen::Index>(i)];
   return out;
+}
+
+void collect_non_finite(const Json& j, const std::string& path, std::vector<std::string>& out) {
+  if (j.is_number_float()) {
+    if (!std::isfinite(j.get<double>())) out.push_back(path);
+  } else if (j.is_object()) {
+    for (const auto& [key, value] : j.items()) collect_non_finite(value, path.empty() ? key : path + "." + key, out);
+  } else if (j.is_array()) {
+    for (std::size_t i = 0; i < j.size(); ++i) collect_non_finite(j[i], path + "[" + std::to_string(i) + "]", out);
+  }
 }
 
 Json name_or_null(const Case& c, const std::optional<std::size_t>& block) {
@@ -115,6 +128,20 @@ Json results_to_json(const Case& c, const SolveResult& result, const std::vector
   doc["warnings"] = result.warnings;
   doc["cautions"] = cautions;
   return doc;
+}
+
+std::vector<std::string> non_finite_json_fields(const Json& doc) {
+  std::vector<std::string> out;
+  collect_non_finite(doc, "", out);
+  return out;
+}
+
+void require_finite_json(const Json& doc) {
+  const std::vector<std::string> fields = non_finite_json_fields(doc);
+  if (fields.empty()) return;
+  throw std::logic_error("internal: the results field '" + fields.front() + "' is not finite" +
+                         (fields.size() > 1 ? " (and " + std::to_string(fields.size() - 1) + " more)" : "") +
+                         "; nothing was written");
 }
 
 }  // namespace unchain::app

@@ -29,4 +29,11 @@ Json block_to_json(const BlockResult& block);
 // shown in the summary (see safety_notes.hpp).
 Json results_to_json(const Case& c, const SolveResult& result, const std::vector<std::string>& cautions);
 
+// The dotted paths of every NaN or infinity in a document ("streams.top.temperature_K").
+std::vector<std::string> non_finite_json_fields(const Json& doc);
+// Throws std::logic_error naming the first such field: results are checked
+// before they are written (flowsheet/finite_check.hpp), so one reaching
+// the writer is a bug (exit 1), never a "nan" or a silent null in the file.
+void require_finite_json(const Json& doc);
+
 }  // namespace unchain::app

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <sstream>
 
+#include "costs/case_study.hpp"
 #include "costs/heating_value.hpp"
 #include "flowsheet/diagnostics.hpp"
 
@@ -303,13 +304,58 @@ CostReport evaluate_costs(const Case& c, const SolveResult& result, const PriceB
   return r;
 }
 
-CostReport evaluate_case_costs(const Case& c, const SolveResult& result) {
+CashFlowBasis cash_flow_basis(const Case& c, const CostReport& report, const CashFlowSettings& settings,
+                              const CapitalSettings& capital) {
+  CashFlowBasis b;
+  b.basis_per_year = c.basis == Basis::batch ? settings.batches_per_year.value_or(capital.batches_per_year)
+                                             : settings.operating_hours_per_year.value_or(capital.operating_hours_per_year);
+  if (!report.monomer_kg || *report.monomer_kg <= 0.0) {
+    b.reason = "no monomer product (accounting.monomer): no discounted cash flow";
+    return b;
+  }
+  if (!report.monomer_price) {
+    b.reason = "no price for the monomer at the purity it reaches (prices.products): no discounted cash flow";
+    return b;
+  }
+  double capital_charge = 0.0;
+  for (const auto& line : report.lines)
+    if (line.category == CostCategory::capital) capital_charge += line.cost;
+  CashFlowInputs in;
+  in.fixed_capital = report.capital.installed_total;
+  in.annual_monomer_kg = *report.monomer_kg * b.basis_per_year;
+  in.monomer_price = *report.monomer_price;
+  in.annual_other_revenue = report.total_credits * b.basis_per_year;
+  in.annual_operating_cost = (report.total_cost - capital_charge) * b.basis_per_year;
+  b.inputs = in;
+  return b;
+}
+
+// Declared in case_study.hpp, the one place that keeps a shared price file
+// between evaluations.
+CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const SharedPriceFile* shared_prices) {
   DiagnosticList diagnostics;
-  const PriceBook prices = read_price_book(c.document, c.file, c.currency, diagnostics);
+  const PriceBook prices = read_price_book(c.document, c.file, c.currency, diagnostics, shared_prices);
   const Accounting accounting = read_accounting(c, diagnostics);
   const CapitalSettings capital = read_capital_settings(c, diagnostics);
+  const CashFlowSettings economics = read_cash_flow_settings(c, diagnostics);
   diagnostics.throw_if_errors();
-  return evaluate_costs(c, result, prices, accounting, capital);
+  CostReport report = evaluate_costs(c, result, prices, accounting, capital);
+  if (economics.present) {
+    const CashFlowBasis basis = cash_flow_basis(c, report, economics, capital);
+    if (basis.inputs) {
+      report.cash_flow = discounted_cash_flow(economics, *basis.inputs);
+      if (!capital.present)
+        report.cash_flow->notes.insert(report.cash_flow->notes.begin(),
+                                       "no capital section: the fixed capital is taken as zero");
+    } else {
+      report.notes.push_back(basis.reason);
+    }
+  }
+  return report;
+}
+
+CostReport evaluate_case_costs(const Case& c, const SolveResult& result) {
+  return evaluate_case_costs(c, result, nullptr);
 }
 
 }  // namespace unchain::costs

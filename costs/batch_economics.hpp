@@ -10,6 +10,7 @@
 
 #include "costs/accounting.hpp"
 #include "costs/capital.hpp"
+#include "costs/cash_flow.hpp"
 #include "costs/minimum_energy.hpp"
 #include "costs/price_book.hpp"
 #include "flowsheet/solver.hpp"
@@ -78,6 +79,7 @@ struct CostReport {
   std::optional<MinimumEnergy> minimum_energy;
   std::optional<double> efficiency_ratio;     // minimum / modelled purchased energy per kg
   CapitalEstimate capital;
+  std::optional<CashFlowResult> cash_flow;    // when the case has an economics section and a priced monomer
   std::vector<std::string> missing_prices;    // things that cost money but have no price
   std::vector<std::string> notes;
 
@@ -88,7 +90,20 @@ struct CostReport {
 CostReport evaluate_costs(const Case& c, const SolveResult& result, const PriceBook& prices,
                           const Accounting& accounting, const CapitalSettings& capital);
 
-// Reads prices, accounting and capital from the case and evaluates them.
+// What the discounted cash flow is built from: the installed capital, and
+// the figures per basis times the batches (or hours) in a year. Operating
+// cost is the total cost less the capital charge line; credits are other
+// revenue. Absent (with the reason) when there is no monomer or no price.
+struct CashFlowBasis {
+  std::optional<CashFlowInputs> inputs;
+  double basis_per_year = 0;   // batches, or operating hours, in a year at full capacity
+  std::string reason;          // why there is no cash flow
+};
+CashFlowBasis cash_flow_basis(const Case& c, const CostReport& report, const CashFlowSettings& settings,
+                              const CapitalSettings& capital);
+
+// Reads prices, accounting, capital and economics from the case and
+// evaluates them (the cash flow only when there is an economics section).
 // Input errors are thrown together as InputError.
 CostReport evaluate_case_costs(const Case& c, const SolveResult& result);
 

@@ -95,28 +95,68 @@ void read_section(MappingReader& m, PriceBook& book) {
   read_optional(m, "fuel_emission_factor", book.fuel_emission_factor);
 }
 
+// The prices of the shared file alone: everything it reports goes to
+// `diagnostics` (with the file's own locations).
+PriceBook read_price_file(const std::string& path, const std::string& currency, DiagnosticList& diagnostics) {
+  PriceBook book;
+  book.currency = currency;
+  try {
+    const YamlDocument shared = load_yaml_file(path);
+    MappingReader shared_prices(shared.root["prices"].IsDefined() ? shared.root["prices"] : shared.root,
+                                shared.file, "prices", diagnostics, currency);
+    if (shared_prices.is_valid()) {
+      read_section(shared_prices, book);
+      shared_prices.finish();
+    }
+  } catch (const InputError& e) {
+    for (const auto& d : e.diagnostics()) diagnostics.error(d.where, d.message);
+  }
+  return book;
+}
+
+std::string price_file_path(const std::string& case_file, const std::string& file) {
+  return (std::filesystem::path(case_file).parent_path() / file).string();
+}
+
+void replay(const std::vector<Diagnostic>& items, DiagnosticList& diagnostics) {
+  for (const auto& d : items) {
+    if (d.severity == Severity::error) diagnostics.error(d.where, d.message);
+    else diagnostics.warning(d.where, d.message);
+  }
+}
+
 }  // namespace
 
+std::optional<SharedPriceFile> read_shared_price_file(const YAML::Node& document, const std::string& case_file,
+                                                      const std::string& currency) {
+  if (!document.IsMap()) return std::nullopt;
+  const YAML::Node prices = document["prices"];
+  if (!prices.IsDefined() || !prices.IsMap()) return std::nullopt;
+  const YAML::Node file = prices["file"];
+  if (!file.IsDefined() || !file.IsScalar()) return std::nullopt;
+  SharedPriceFile shared;
+  shared.path = price_file_path(case_file, file.Scalar());
+  shared.currency = currency;
+  DiagnosticList diagnostics;
+  shared.book = read_price_file(shared.path, currency, diagnostics);
+  shared.diagnostics = diagnostics.all();
+  return shared;
+}
+
 PriceBook read_price_book(const YAML::Node& document, const std::string& case_file, const std::string& currency,
-                          DiagnosticList& diagnostics) {
+                          DiagnosticList& diagnostics, const SharedPriceFile* shared) {
   PriceBook book;
   book.currency = currency;
   if (!document.IsMap()) return book;
   MappingReader prices(document["prices"], case_file, "prices", diagnostics, currency);
   if (!prices.is_valid()) return book;
   if (auto file = prices.optional_text("file")) {
-    namespace fs = std::filesystem;
-    const fs::path path = fs::path(case_file).parent_path() / *file;
-    try {
-      const YamlDocument shared = load_yaml_file(path.string());
-      MappingReader shared_prices(shared.root["prices"].IsDefined() ? shared.root["prices"] : shared.root,
-                                  shared.file, "prices", diagnostics, currency);
-      if (shared_prices.is_valid()) {
-        read_section(shared_prices, book);
-        shared_prices.finish();
-      }
-    } catch (const InputError& e) {
-      for (const auto& d : e.diagnostics()) diagnostics.error(d.where, d.message);
+    const std::string path = price_file_path(case_file, *file);
+    if (shared != nullptr && shared->path == path && shared->currency == currency) {
+      book = shared->book;
+      replay(shared->diagnostics, diagnostics);
+    } else {
+      book = read_price_file(path, currency, diagnostics);
     }
   }
   read_section(prices, book);

@@ -55,9 +55,27 @@ struct PriceBook {
   [[nodiscard]] const PurityGrade* grade_for(const std::string& component, double purity) const;
 };
 
+// What the shared price file named by `prices.file` gives on its own, read
+// once for the many evaluations of one case (a Monte Carlo run, a sweep)
+// instead of parsing the file again each time. Immutable once read, so one
+// may be shared by threads.
+struct SharedPriceFile {
+  std::string path;                     // case folder / prices.file, as read_price_book resolves it
+  std::string currency;                 // the currency its prices were read in
+  PriceBook book;                       // the file's prices alone
+  std::vector<Diagnostic> diagnostics;  // what reading the file reported (its own FILE:LINE:COLUMN)
+};
+
+// The shared price file of a case document, if `prices.file` names one
+// (an unreadable file gives its errors in `diagnostics`, as on every read).
+std::optional<SharedPriceFile> read_shared_price_file(const YAML::Node& document, const std::string& case_file,
+                                                      const std::string& currency);
+
 // Reads `prices` from the case document (and `prices.file` relative to the
-// case file's folder). Errors go to `diagnostics`.
+// case file's folder). Errors go to `diagnostics`. `shared`, when given and
+// it is the file the document names in the same currency, stands for
+// reading that file again (same prices, same diagnostics).
 PriceBook read_price_book(const YAML::Node& document, const std::string& case_file, const std::string& currency,
-                          DiagnosticList& diagnostics);
+                          DiagnosticList& diagnostics, const SharedPriceFile* shared = nullptr);
 
 }  // namespace unchain::costs

@@ -429,7 +429,10 @@ void CaseLoader::connect(std::size_t block_index, const YAML::Node& node, const 
 
   BlockInstance& block = case_.blocks[block_index];
   for (auto& [role, names] : wanted) {
-    const PortSpec& port = *std::find_if(ports.begin(), ports.end(), [&](const PortSpec& p) { return p.role == role; });
+    // A named copy: clang before 16 cannot capture a structured binding.
+    const std::string& wanted_role = role;
+    const PortSpec& port =
+        *std::find_if(ports.begin(), ports.end(), [&](const PortSpec& p) { return p.role == wanted_role; });
     if (names.size() > 1 && !port.many)
       diagnostics_.error(names[1].where, "'" + path + "." + role + "': " + kind + " '" + role +
                                              "' takes one stream (found " + std::to_string(names.size()) + ")");
@@ -652,11 +655,15 @@ YAML::Node override_value(const Override& o) {
   const std::string& v = o.value;
   const auto first = v.find_first_not_of(' ');
   if (first != std::string::npos && (v[first] == '[' || v[first] == '{')) {
+    // The checks of a case file apply (UTF-8, nesting, duplicate keys, alias
+    // cycles and alias bombs): without_marks would recurse forever on a
+    // value such as "&a [*a]".
     try {
-      return without_marks(YAML::Load(v));
-    } catch (const YAML::Exception& e) {
+      return without_marks(parse_yaml_text(v, "--set '" + o.path + "'").root);
+    } catch (const InputError& e) {
+      const std::string why = e.diagnostics().empty() ? std::string(e.what()) : e.diagnostics().front().message;
       throw InputError(command_line(), "--set '" + o.path + "': the value is not a valid YAML list or mapping (" +
-                                         e.msg + ")");
+                                         why + ")");
     }
   }
   return YAML::Node(v);

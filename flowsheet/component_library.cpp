@@ -425,7 +425,25 @@ const ComponentLibrary& builtin_library() {
 
 ComponentSet::ComponentSet(std::vector<Component> components, std::vector<NrtlPair> nrtl,
                            std::vector<FloryHugginsPair> flory_huggins)
-    : components_(std::move(components)), nrtl_(std::move(nrtl)), flory_huggins_(std::move(flory_huggins)) {}
+    : components_(std::move(components)), nrtl_(std::move(nrtl)), flory_huggins_(std::move(flory_huggins)) {
+  for (std::size_t i = 0; i < components_.size(); ++i)
+    if (!components_[i].is_condensed_only()) nrtl_index_.members.push_back(i);
+  auto local = [&](const std::string& id) -> std::optional<std::size_t> {
+    for (std::size_t a = 0; a < nrtl_index_.members.size(); ++a)
+      if (components_[nrtl_index_.members[a]].id == id) return a;
+    return std::nullopt;
+  };
+  std::vector<bool> in_pair(nrtl_index_.members.size(), false);
+  for (std::size_t p = 0; p < nrtl_.size(); ++p) {
+    const auto i = local(nrtl_[p].first);
+    const auto j = local(nrtl_[p].second);
+    if (!i || !j || *i == *j) continue;
+    nrtl_index_.pairs.push_back({p, *i, *j});
+    in_pair[*i] = in_pair[*j] = true;
+  }
+  for (std::size_t a = 0; a < in_pair.size(); ++a)
+    if (in_pair[a]) nrtl_index_.paired.push_back(a);
+}
 
 std::optional<std::size_t> ComponentSet::index_of(std::string_view id) const {
   for (std::size_t i = 0; i < components_.size(); ++i)

@@ -63,6 +63,19 @@ class ComponentLibrary {
 // use, and immutable afterwards (safe to share between threads).
 const ComponentLibrary& builtin_library();
 
+// The NRTL pairs of a component set resolved, once, to positions in its
+// liquid mixture (every component but polymers and solids), so that an
+// activity coefficient evaluation compares no names (thermo/activity.cpp).
+struct NrtlIndex {
+  struct Pair {
+    std::size_t pair = 0;            // position in ComponentSet::nrtl_pairs()
+    std::size_t first = 0, second = 0;  // positions of its two components in `members`
+  };
+  std::vector<std::size_t> members;  // component indices of the liquid mixture, in set order
+  std::vector<Pair> pairs;           // the pairs whose two components are both members, in pair order
+  std::vector<std::size_t> paired;   // member positions that are in at least one pair, ascending
+};
+
 // The components a case uses, in a fixed order that indexes stream vectors.
 class ComponentSet {
  public:
@@ -77,12 +90,14 @@ class ComponentSet {
   // Throws ModelError naming the id when the case does not use it.
   [[nodiscard]] std::size_t require(std::string_view id) const;
   [[nodiscard]] const std::vector<NrtlPair>& nrtl_pairs() const { return nrtl_; }
+  [[nodiscard]] const NrtlIndex& nrtl_index() const { return nrtl_index_; }
   [[nodiscard]] const FloryHugginsPair* find_flory_huggins(std::string_view polymer, std::string_view solvent) const;
 
  private:
   std::vector<Component> components_;
   std::vector<NrtlPair> nrtl_;
   std::vector<FloryHugginsPair> flory_huggins_;
+  NrtlIndex nrtl_index_;  // derived from the two above in the constructor
 };
 
 // Builds the set of components `ids` from a library, with the binary data

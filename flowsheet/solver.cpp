@@ -226,25 +226,28 @@ class SolveState {
 
   void check_outlet(const BlockInstance& block, const std::string& role, const std::string& name,
                     const Stream& s) {
-    const std::string where = describe_block(block) + ": outlet '" + role + "' (stream '" + name + "')";
+    // The description is built only for a message: this runs on every
+    // outlet of every block run.
+    auto where = [&] { return describe_block(block) + ": outlet '" + role + "' (stream '" + name + "')"; };
     if (!s.has_components() || &s.components() != case_.components.get() || s.size() != case_.components->size())
-      throw ModelError(where + " does not use the case's component set");
+      throw ModelError(where() + " does not use the case's component set");
     for (Phase phase : all_phases) {
       const Eigen::VectorXd& m = s.phase_masses(phase);
       for (Eigen::Index i = 0; i < m.size(); ++i) {
+        if (std::isfinite(m[i]) && m[i] >= 0.0) continue;
         const std::string quantity = std::string(phase_name(phase)) + " mass of " +
                                      (*case_.components)[static_cast<std::size_t>(i)].id;
-        if (!std::isfinite(m[i])) throw ModelError(where + " has a non-finite " + quantity);
-        if (m[i] < 0.0)
-          warnings_.add(where + " has a negative " + quantity + " (" + std::to_string(m[i]) + " kg)");
+        if (!std::isfinite(m[i])) throw ModelError(where() + " has a non-finite " + quantity);
+        warnings_.add(where() + " has a negative " + quantity + " (" + std::to_string(m[i]) + " kg)");
       }
     }
     const double T = in_kelvin(s.temperature());
-    if (!std::isfinite(T)) throw ModelError(where + " has a non-finite temperature");
-    if (T <= 0.0) throw ModelError(where + " has a temperature at or below absolute zero (" + std::to_string(T) + " K)");
+    if (!std::isfinite(T)) throw ModelError(where() + " has a non-finite temperature");
+    if (T <= 0.0)
+      throw ModelError(where() + " has a temperature at or below absolute zero (" + std::to_string(T) + " K)");
     const double P = to_si(s.pressure());
-    if (!std::isfinite(P)) throw ModelError(where + " has a non-finite pressure");
-    if (P <= 0.0) throw ModelError(where + " has a pressure at or below zero (" + std::to_string(P) + " Pa)");
+    if (!std::isfinite(P)) throw ModelError(where() + " has a non-finite pressure");
+    if (P <= 0.0) throw ModelError(where() + " has a pressure at or below zero (" + std::to_string(P) + " Pa)");
   }
 
   void converge_loop(const CalculationStep& step, LoopReport& report) {

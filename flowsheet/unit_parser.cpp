@@ -1,11 +1,15 @@
 #include "flowsheet/unit_parser.hpp"
 
+#include <algorithm>
 #include <charconv>
 #include <cctype>
 #include <cmath>
 #include <cstdlib>
 #include <optional>
 #include <string>
+#include <vector>
+
+#include "flowsheet/yaml_reader.hpp"  // closest_match, for suggestions
 
 namespace unchain {
 
@@ -32,7 +36,7 @@ struct UnitDefinition {
 // psi (lbf/in^2 = 6894.757293168 Pa), thermochemical calorie (4.184 J),
 // BTU (International Table, 1055.05585262 J). Source: NIST SP 811 (2008),
 // Appendix B.
-const UnitDefinition* find_unit(std::string_view symbol) {
+const std::vector<UnitDefinition>& unit_table() {
   static const Dimension mass = make_dimension(1, 0, 0);
   static const Dimension length = make_dimension(0, 1, 0);
   static const Dimension area = make_dimension(0, 2, 0);
@@ -45,7 +49,7 @@ const UnitDefinition* find_unit(std::string_view symbol) {
   static const Dimension pressure = make_dimension(1, -1, -2);
   static const Dimension force = make_dimension(1, 1, -2);
   static const Dimension none = make_dimension(0, 0, 0);
-  static const UnitDefinition table[] = {
+  static const std::vector<UnitDefinition> table = {
       {"kg", 1.0, mass, 0}, {"g", 1e-3, mass, 0}, {"mg", 1e-6, mass, 0},
       {"t", 1e3, mass, 0}, {"tonne", 1e3, mass, 0}, {"lb", 0.45359237, mass, 0},
       {"m", 1.0, length, 0}, {"cm", 1e-2, length, 0}, {"mm", 1e-3, length, 0},
@@ -72,9 +76,29 @@ const UnitDefinition* find_unit(std::string_view symbol) {
       {"N", 1.0, force, 0},
       {"%", 0.01, none, 0}, {"ppm", 1e-6, none, 0},
   };
-  for (const auto& u : table)
+  return table;
+}
+
+const UnitDefinition* find_unit(std::string_view symbol) {
+  for (const auto& u : unit_table())
     if (u.symbol == symbol) return &u;
   return nullptr;
+}
+
+// "unknown unit ..." with what was expected and, when one is close, the
+// symbol probably meant ("degQ" -> "degC").
+std::string unknown_unit_message(std::string_view symbol, std::string_view expression) {
+  std::vector<std::string> symbols;
+  for (const auto& u : unit_table()) symbols.emplace_back(u.symbol);
+  std::string suggestion = closest_match(symbol, symbols);
+  // One letter off in a two-letter symbol is a guess, not a suggestion.
+  if (!suggestion.empty() && edit_distance(symbol, suggestion) > std::max<std::size_t>(1, symbol.size() / 3))
+    suggestion.clear();
+  std::string message = "unknown unit \"" + std::string(symbol) +
+                        "\" (expected a unit symbol such as K, degC, kPa, kg, kJ or h, listed in docs/quantities.md, "
+                        "found \"" + std::string(expression) + "\")";
+  if (!suggestion.empty()) message += " (did you mean \"" + suggestion + "\"?)";
+  return message;
 }
 
 bool is_currency_code(std::string_view s) {
@@ -218,7 +242,7 @@ class UnitExpressionParser {
       return out;
     }
     if (unit == nullptr)
-      throw UnitError("unknown unit \"" + std::string(symbol) + "\"");
+      throw UnitError(unknown_unit_message(symbol, text_));
     UnitValue base;
     base.scale = unit->scale;
     base.dimension = unit->dimension;

@@ -2,9 +2,11 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <fstream>
 #include <limits>
 #include <sstream>
+#include <unordered_set>
 
 namespace unchain {
 
@@ -17,29 +19,77 @@ SourceLocation location_of(const YAML::Node& node, const std::string& file) {
 namespace {
 
 // Walks the tree once: refuses over-deep nesting and duplicate keys, which
-// yaml-cpp accepts silently (the later value would win unseen).
-void check_structure(const YAML::Node& node, const std::string& file, int depth, DiagnosticList& diagnostics) {
-  if (depth > max_nesting_depth) {
-    diagnostics.error(location_of(node, file), "nesting deeper than " + std::to_string(max_nesting_depth) +
-                                                   " levels (expected a flatter file)");
-    return;
-  }
-  if (node.IsMap()) {
-    std::vector<std::string> seen;
-    for (const auto& item : node) {
-      if (item.first.IsScalar()) {
-        const std::string key = item.first.Scalar();
-        if (std::find(seen.begin(), seen.end(), key) != seen.end())
-          diagnostics.error(location_of(item.first, file), "duplicate key '" + key + "'");
-        seen.push_back(key);
-      }
-      check_structure(item.second, file, depth + 1, diagnostics);
-      if (diagnostics.has_errors() && depth > max_nesting_depth) return;
+// yaml-cpp accepts silently (the later value would win unseen), an alias
+// that refers to a node containing it (a cycle, which every later reader
+// would follow forever), and a tree that aliases expand beyond
+// max_expanded_nodes (a few lines of anchors can stand for billions of nodes).
+class StructureCheck {
+ public:
+  StructureCheck(const std::string& file, DiagnosticList& diagnostics) : file_(file), diagnostics_(diagnostics) {}
+
+  // False once an error makes walking further pointless. `holder` is where
+  // the node is named: its key in a mapping, else unknown (line 0).
+  bool walk(const YAML::Node& node, SourceLocation holder = {}) {
+    if (++visited_ > max_expanded_nodes) {
+      diagnostics_.error(location_of(node, file_),
+                         "the YAML aliases expand to more than " + std::to_string(max_expanded_nodes) +
+                             " values (expected a case that names each value once or reuses a few)");
+      return false;
     }
-  } else if (node.IsSequence()) {
-    for (const auto& item : node) check_structure(item, file, depth + 1, diagnostics);
+    for (const auto& ancestor : ancestors_)
+      if (ancestor.is(node)) {
+        // Reported at the key that holds the alias (an alias keeps no place
+        // of its own in yaml-cpp), naming where the anchored value starts.
+        const SourceLocation anchor = location_of(node, file_);
+        diagnostics_.error(holder.line > 0 ? holder : anchor,
+                           "recursive YAML alias: the alias here refers to the anchored value (line " +
+                               std::to_string(anchor.line) + ") that contains it (expected a tree, found a cycle)");
+        return false;
+      }
+    if (static_cast<int>(ancestors_.size()) > max_nesting_depth) {
+      diagnostics_.error(location_of(node, file_), "nesting deeper than " + std::to_string(max_nesting_depth) +
+                                                       " levels (expected a flatter file)");
+      return false;
+    }
+    if (!node.IsMap() && !node.IsSequence()) return true;
+    ancestors_.push_back(node);
+    bool go_on = true;
+    if (node.IsMap()) {
+      std::unordered_set<std::string> seen;  // a set: a map of many keys stays linear
+      for (const auto& item : node) {
+        if (item.first.IsScalar()) {
+          const std::string& key = item.first.Scalar();
+          if (!seen.insert(key).second)
+            diagnostics_.error(location_of(item.first, file_), "duplicate key '" + key + "'");
+        } else if (!walk(item.first)) {
+          go_on = false;
+          break;
+        }
+        if (!walk(item.second, location_of(item.first, file_))) {
+          go_on = false;
+          break;
+        }
+      }
+    } else {
+      for (const auto& item : node)
+        if (!walk(item)) {
+          go_on = false;
+          break;
+        }
+    }
+    ancestors_.pop_back();
+    return go_on;
   }
-}
+
+ private:
+  // A shipped case has a few thousand values; this leaves room for large
+  // user cases while bounding the work of every later reader.
+  static constexpr long max_expanded_nodes = 200000;
+  const std::string& file_;
+  DiagnosticList& diagnostics_;
+  std::vector<YAML::Node> ancestors_;
+  long visited_ = 0;
+};
 
 void check_tabs(std::string_view text, const std::string& file, DiagnosticList& diagnostics) {
   int line = 1;
@@ -62,6 +112,49 @@ void check_tabs(std::string_view text, const std::string& file, DiagnosticList& 
   }
 }
 
+// YAML text is Unicode, and every text of a case may end up in the results
+// JSON, which must be valid UTF-8: a stray byte (a file saved in Latin-1)
+// is refused here, at its place, rather than failing the JSON writer later.
+// Strict UTF-8: no overlong forms, no surrogates, nothing above U+10FFFF.
+void check_utf8(std::string_view text, const std::string& file, DiagnosticList& diagnostics) {
+  int line = 1;
+  int column = 1;
+  std::size_t i = 0;
+  while (i < text.size()) {
+    const auto byte = [&](std::size_t k) { return static_cast<unsigned char>(text[k]); };
+    const unsigned char lead = byte(i);
+    std::size_t length = 0;
+    unsigned char low = 0x80, high = 0xBF;  // allowed range of the first continuation byte
+    if (lead < 0x80) length = 1;
+    else if (lead >= 0xC2 && lead <= 0xDF) length = 2;
+    else if (lead == 0xE0) length = 3, low = 0xA0;
+    else if (lead >= 0xE1 && lead <= 0xEC) length = 3;
+    else if (lead == 0xED) length = 3, high = 0x9F;
+    else if (lead >= 0xEE && lead <= 0xEF) length = 3;
+    else if (lead == 0xF0) length = 4, low = 0x90;
+    else if (lead >= 0xF1 && lead <= 0xF3) length = 4;
+    else if (lead == 0xF4) length = 4, high = 0x8F;
+    bool valid = length > 0 && i + length <= text.size();
+    for (std::size_t k = 1; valid && k < length; ++k) {
+      const unsigned char c = byte(i + k);
+      valid = k == 1 ? (c >= low && c <= high) : (c >= 0x80 && c <= 0xBF);
+    }
+    if (!valid) {
+      char hex[8];
+      std::snprintf(hex, sizeof hex, "0x%02X", static_cast<unsigned>(lead));
+      diagnostics.error({file, line, column},
+                        std::string("the file is not valid UTF-8 text (expected UTF-8, found the byte ") + hex + ")");
+      return;
+    }
+    if (lead == '\n') {
+      ++line;
+      column = 0;
+    }
+    ++column;
+    i += length;
+  }
+}
+
 }  // namespace
 
 YamlDocument parse_yaml_text(std::string_view text, std::string file_name) {
@@ -71,6 +164,8 @@ YamlDocument parse_yaml_text(std::string_view text, std::string file_name) {
                                              " bytes, found " + std::to_string(text.size()) + ")");
     diagnostics.throw_if_errors();
   }
+  check_utf8(text, file_name, diagnostics);
+  diagnostics.throw_if_errors();
   check_tabs(text, file_name, diagnostics);
   diagnostics.throw_if_errors();
   YamlDocument doc{std::move(file_name), {}};
@@ -96,7 +191,7 @@ YamlDocument parse_yaml_text(std::string_view text, std::string file_name) {
     diagnostics.error({doc.file, e.mark.line + 1, e.mark.column + 1}, std::string("YAML: ") + e.what());
     diagnostics.throw_if_errors();
   }
-  check_structure(doc.root, doc.file, 0, diagnostics);
+  StructureCheck(doc.file, diagnostics).walk(doc.root);
   diagnostics.throw_if_errors();
   return doc;
 }

@@ -16,6 +16,8 @@ packages=(
   nlohmann-json3-dev libfmt-dev libbenchmark-dev
   # reference libraries the tests compare against
   python3 python3-iapws python3-pint python3-periodictable python3-numpy python3-scipy
+  # headless browser the report test renders the HTML report with
+  chromium
 )
 
 missing=()

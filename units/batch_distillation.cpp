@@ -94,6 +94,9 @@ struct TargetReport {
   std::string search_failure;
 };
 
+// A component's residue below this fraction of its charge is rounding.
+constexpr double residue_dust_fraction = 1e-12;
+
 // The highest reflux ratio the search for the target purity tries.
 // Beyond about 50 a reflux ratio is impractical for a lab or pilot still (common
 // practice), and every trial re-runs the whole batch, so the search stops there.
@@ -345,14 +348,21 @@ void BatchDistillation::compute(const BlockContext& context, const BlockPorts& p
     if (c == 0) out.phase_masses(Phase::vapour) = gas_kg;
     set_state(out, T_receiver, P);
   }
+  // What is left of a component after rounding (parts in 1e-14 of its
+  // charge, from summing hundreds of packets) is taken as none: such dust
+  // would only bring range warnings of correlations at the pot temperature
+  // for a component that is not there.
+  Eigen::VectorXd residue_kg = (volatile_kg - distilled_kg).cwiseMax(0.0);
+  for (Index k = 0; k < size; ++k)
+    if (residue_kg[k] <= residue_dust_fraction * volatile_kg[k]) residue_kg[k] = 0.0;
   Stream& residue = ports.outlet("residue");
   residue = nonvolatile;
-  residue.phase_masses(Phase::liquid) += (volatile_kg - distilled_kg).cwiseMax(0.0);
+  residue.phase_masses(Phase::liquid) += residue_kg;
   set_state(residue, still.residue_temperature, P);
 
   // Range warnings of the correlations at the states reported.
   (void)bubble_temperature(components, still.initial_column.still_liquid, P, &context.warnings);
-  const Eigen::VectorXd residue_x = (volatile_kg - distilled_kg).cwiseMax(0.0).cwiseQuotient(M);
+  const Eigen::VectorXd residue_x = residue_kg.cwiseQuotient(M);
   if (residue_x.sum() > 0.0) (void)bubble_temperature(components, residue_x, P, &context.warnings);
 
   const StillEnergy energy = still_energy(components, feed, volatile_kg, gas_kg, nonvolatile, still, M, R, T_receiver,
@@ -586,27 +596,42 @@ TargetReport BatchDistillation::analyse_target(
 
   // The reflux ratio at the given stages: whole runs with the cuts as
   // defined, at a quarter of the steps, doubling R until the cut reaches the
-  // purity, then bisecting on log R. Only when the purity is missed.
+  // purity, then bisecting on log R; the answer is confirmed by a run at
+  // the full step count. Only when the purity is missed. The purity grows
+  // with R, so the highest ratio searched is tried first: when even it
+  // misses (the usual outcome when the cuts, not the column, limit the
+  // purity) the doubling could not have found an answer either, and one
+  // run settles it instead of four or more.
   if (report.purity >= p || spec_.stages == 0) return report;
   const int steps = std::max(25, spec_.steps_per_cut / 4);
-  auto reaches = [&](double R) { return purity_in(run_at(R, steps), report.cut) >= p; };
+  auto reaches_at = [&](double R, int steps_per_cut) {
+    return purity_in(run_at(R, steps_per_cut), report.cut) >= p;
+  };
+  auto reaches = [&](double R) { return reaches_at(R, steps); };
   double low = std::max(spec_.reflux_ratio, 0.05);
   double high = 2.0 * low;
   // The search is advice, not the result: a column that will not settle at
   // some trial ratio ends the search instead of the solve.
   try {
-    while (!reaches(high)) {
-      if (high >= highest_reflux_searched) {
-        report.reflux_needed = std::numeric_limits<double>::infinity();
-        return report;
-      }
+    const bool reaches_at_highest = reaches(highest_reflux_searched);
+    if (!reaches_at_highest) {
+      report.reflux_needed = std::numeric_limits<double>::infinity();
+      return report;
+    }
+    while (high < highest_reflux_searched && !reaches(high)) {
       low = high;
       high = std::min(2.0 * high, highest_reflux_searched);
     }
+    constexpr double grid_factor = 1.0218971486541166;  // 2^(1/32)
     for (int i = 0; i < 5; ++i) {  // to within a factor 2^(1/32), about 2 %
       const double mid = std::sqrt(low * high);
       (reaches(mid) ? high : low) = mid;
     }
+    // The coarse runs carry an integration error of their own; the ratio
+    // reported must reach the purity at the step count of the block. A
+    // few grid steps up cover the difference between the two.
+    for (int i = 0; i < 4 && high < highest_reflux_searched && !reaches_at(high, spec_.steps_per_cut); ++i)
+      high = std::min(high * grid_factor, highest_reflux_searched);
   } catch (const ModelError& e) {
     report.search_failure = e.what();
     return report;

@@ -1,6 +1,8 @@
 #include "units/column_stages.hpp"
 
+#include <Eigen/QR>
 #include <algorithm>
+#include <array>
 #include <boost/math/tools/toms748_solve.hpp>
 #include <cmath>
 #include <cstdint>
@@ -23,7 +25,10 @@ using Index = Eigen::Index;
 // The stage compositions are converged when no mole fraction changes by
 // more than this between two passes of the bubble-point method.
 constexpr double composition_tolerance = 1e-13;
-constexpr int max_column_iterations = 2000;
+constexpr int max_column_iterations = 1000;
+// Passes after which the acceleration is used however far the passes are
+// from settling (the columns that settle do so well within this).
+constexpr int plain_pass_limit = 150;
 
 Eigen::VectorXd normalised(const Eigen::VectorXd& v, const char* what) {
   const double total = v.sum();
@@ -44,8 +49,75 @@ struct Saturation {
 Saturation antoine(const AntoineCorrelation& a, double T_K) {
   const double t = a.temperature_in_celsius ? T_K - 273.15 : T_K;
   if (a.C + t <= 0.0) return {};
-  return {a.pressure_unit_Pa * std::pow(10.0, a.A - a.B / (a.C + t)), std::log(10.0) * a.B / ((a.C + t) * (a.C + t))};
+  constexpr double ln10 = 2.302585092994046;
+  return {a.pressure_unit_Pa * std::exp(ln10 * (a.A - a.B / (a.C + t))), ln10 * a.B / ((a.C + t) * (a.C + t))};
 }
+
+// Anderson acceleration of a fixed-point iteration x -> G(x) (Walker and
+// Ni, SIAM J. Numer. Anal. 49 (2011) 1715, "Type II", no damping): the
+// next estimate is G(x_k) - dG gamma, gamma minimising
+// |f_k - dF gamma| over the differences of the last few residuals
+// f = G(x) - x. A residual that grows against the best seen restarts it.
+class AndersonMixing {
+ public:
+  explicit AndersonMixing(Index size) : size_(size) {}
+
+  void reset() {
+    count_ = 0;
+    have_previous_ = false;
+  }
+
+  // From now on mix whatever the residual: for the plain passes that go
+  // round in a cycle instead of closing in.
+  void mix_from_anywhere() { start_below_ = std::numeric_limits<double>::infinity(); }
+
+  const Eigen::VectorXd& next_estimate(const Eigen::VectorXd& x, const Eigen::VectorXd& g) {
+    const Eigen::VectorXd f = g - x;
+    const double norm = f.cwiseAbs().maxCoeff();
+    if (have_previous_ && norm > restart_growth * best_norm_) reset();
+    // Far from the solution the plain passes are safer: extrapolating from
+    // them there has sent non-ideal columns (acetone-water) astray.
+    if (norm > start_below_) {
+      reset();
+      estimate_ = g;
+      return estimate_;
+    }
+    if (!have_previous_) {
+      best_norm_ = norm;
+    } else {
+      best_norm_ = std::min(best_norm_, norm);
+      if (dF_.cols() == 0) {
+        dF_.resize(size_, depth);
+        dG_.resize(size_, depth);
+      }
+      const Index slot = static_cast<Index>(count_ % depth);
+      dF_.col(slot) = f - f_previous_;
+      dG_.col(slot) = g - g_previous_;
+      ++count_;
+    }
+    f_previous_ = f;
+    g_previous_ = g;
+    have_previous_ = true;
+    estimate_ = g;
+    const Index m = static_cast<Index>(std::min<std::size_t>(count_, depth));
+    if (m > 0) {
+      const Eigen::VectorXd gamma = dF_.leftCols(m).colPivHouseholderQr().solve(f);
+      if (gamma.allFinite()) estimate_ -= dG_.leftCols(m) * gamma;
+    }
+    return estimate_;
+  }
+
+ private:
+  static constexpr std::size_t depth = 5;
+  static constexpr double restart_growth = 10.0;
+  Index size_;
+  double start_below_ = 1e-3;  // largest change of a mole fraction in a pass
+  std::size_t count_ = 0;
+  bool have_previous_ = false;
+  double best_norm_ = 0.0;
+  Eigen::MatrixXd dF_, dG_;
+  Eigen::VectorXd f_previous_, g_previous_, estimate_;
+};
 
 }  // namespace
 
@@ -86,7 +158,6 @@ Eigen::VectorXd ModifiedRaoultKValues::activity(const Eigen::VectorXd& x, double
   if (static_cast<std::size_t>(n) != components_->size())
     return activity_coefficients(*components_, x, kelvin(T_K), nullptr);  // throws, saying why
   if (active_pairs_.empty()) return gamma;  // ideal liquid, as activity_coefficients finds
-  const Index m = static_cast<Index>(liquid_members_.size());
   double total = 0.0;
   for (const Index i : liquid_members_) {
     const double xi = x[i];
@@ -95,8 +166,6 @@ Eigen::VectorXd ModifiedRaoultKValues::activity(const Eigen::VectorXd& x, double
     total += xi;
   }
   if (!(total > 0.0)) return gamma;
-  Eigen::VectorXd xm(m);
-  for (Index a = 0; a < m; ++a) xm[a] = x[liquid_members_[static_cast<std::size_t>(a)]] / total;
   // Renon and Prausnitz (1968), as in flowsheet/thermo/activity.cpp:
   // tau_ij = a_ij + b_ij / T, G_ij = exp(-alpha_ij tau_ij), ideal pairs
   // tau = 0, G = 1; ln gamma_i = S_i / D_i + sum_j x_j G_ij / D_j
@@ -104,19 +173,35 @@ Eigen::VectorXd ModifiedRaoultKValues::activity(const Eigen::VectorXd& x, double
   // Only the few members in a pair (set P) have tau != 0, so the sums are
   // taken over P and the rest in closed form: for j outside P, S_j = 0 and
   // D_j = sum x; for i outside P, ln gamma_i = -sum_{j in P} x_j S_j / D_j^2.
+  // Mole fractions are taken over the liquid members (x / total). The
+  // working arrays live on the stack for the usual few pairs: this runs
+  // some ten times per stage and pass, and heap traffic cost as much as
+  // the arithmetic.
   const Index p = static_cast<Index>(paired_members_.size());
-  Eigen::MatrixXd tau = Eigen::MatrixXd::Zero(p, p);
-  Eigen::MatrixXd G = Eigen::MatrixXd::Ones(p, p);
+  constexpr Index on_stack = 6;
+  std::array<double, 2 * on_stack * on_stack + 3 * on_stack> stack_memory{};
+  std::vector<double> heap_memory;
+  double* memory = stack_memory.data();
+  if (p > on_stack) {
+    heap_memory.resize(static_cast<std::size_t>(2 * p * p + 3 * p));
+    memory = heap_memory.data();
+  }
+  Eigen::Map<Eigen::MatrixXd> tau(memory, p, p), G(memory + p * p, p, p);
+  Eigen::Map<Eigen::VectorXd> xp(memory + 2 * p * p, p), D(memory + 2 * p * p + p, p), S(memory + 2 * p * p + 2 * p, p);
+  tau.setZero();
+  G.setOnes();
   for (const ActivePair& q : active_pairs_) {
     tau(q.i, q.j) = q.a12 + q.b12 / T_K;
     tau(q.j, q.i) = q.a21 + q.b21 / T_K;
     G(q.i, q.j) = std::exp(-q.alpha * tau(q.i, q.j));
     G(q.j, q.i) = std::exp(-q.alpha * tau(q.j, q.i));
   }
-  const double x_sum = xm.sum();
-  Eigen::VectorXd xp(p), D(p), S(p);
-  for (Index a = 0; a < p; ++a) xp[a] = xm[paired_members_[static_cast<std::size_t>(a)]];
-  const double x_outside = x_sum - xp.sum();
+  double x_paired = 0.0;
+  for (Index a = 0; a < p; ++a) {
+    xp[a] = x[liquid_members_[static_cast<std::size_t>(paired_members_[static_cast<std::size_t>(a)])]] / total;
+    x_paired += xp[a];
+  }
+  const double x_outside = 1.0 - x_paired;
   for (Index j = 0; j < p; ++j) {
     double d = x_outside, s = 0.0;
     for (Index k = 0; k < p; ++k) {
@@ -129,7 +214,7 @@ Eigen::VectorXd ModifiedRaoultKValues::activity(const Eigen::VectorXd& x, double
   double ln_gamma_outside = 0.0;
   for (Index j = 0; j < p; ++j) ln_gamma_outside -= xp[j] * S[j] / (D[j] * D[j]);
   const double gamma_outside = std::exp(ln_gamma_outside);
-  for (Index a = 0; a < m; ++a) gamma[liquid_members_[static_cast<std::size_t>(a)]] = gamma_outside;
+  for (const Index i : liquid_members_) gamma[i] = gamma_outside;
   for (Index i = 0; i < p; ++i) {
     double ln_gamma = S[i] / D[i];
     for (Index j = 0; j < p; ++j) ln_gamma += xp[j] * G(i, j) / D[j] * (tau(i, j) - S[j] / D[j]);
@@ -177,16 +262,21 @@ StageEquilibrium ModifiedRaoultKValues::bubble_point(const Eigen::VectorXd& x_in
 
   Eigen::VectorXd psat = Eigen::VectorXd::Zero(x.size());
   Eigen::VectorXd slope = Eigen::VectorXd::Zero(x.size());
+  // The Newton steps need the vapour pressures of the components present
+  // only; the K-values returned cover every volatile component.
+  std::vector<Index> present;
+  for (std::size_t i = 0; i < n; ++i)
+    if (x[static_cast<Index>(i)] > 0.0) present.push_back(static_cast<Index>(i));
+  auto saturation_of = [&](Index k, double T_K) {
+    const Component& c = components[static_cast<std::size_t>(k)];
+    const Saturation s = c.kind == ComponentKind::volatile_liquid && c.vapour_pressure
+                             ? antoine(*c.vapour_pressure, T_K)
+                             : Saturation{};
+    psat[k] = s.pressure_Pa;
+    slope[k] = s.log_slope_per_K;
+  };
   auto saturation = [&](double T_K) {
-    for (std::size_t i = 0; i < n; ++i) {
-      const auto k = static_cast<Index>(i);
-      const Component& c = components[i];
-      const Saturation s = c.kind == ComponentKind::volatile_liquid && c.vapour_pressure
-                               ? antoine(*c.vapour_pressure, T_K)
-                               : Saturation{};
-      psat[k] = s.pressure_Pa;
-      slope[k] = s.log_slope_per_K;
-    }
+    for (const Index k : present) saturation_of(k, T_K);
   };
   double T_K = 0.0;
   if (guess) {
@@ -204,8 +294,7 @@ StageEquilibrium ModifiedRaoultKValues::bubble_point(const Eigen::VectorXd& x_in
     gamma = activity(x, T_K);
     saturation(T_K);
     double sum = 0.0, derivative = 0.0;
-    for (Index k = 0; k < x.size(); ++k) {
-      if (!(x[k] > 0.0)) continue;
+    for (const Index k : present) {
       const double term = x[k] * gamma[k] * psat[k];
       sum += term;
       derivative += term * slope[k];
@@ -217,13 +306,68 @@ StageEquilibrium ModifiedRaoultKValues::bubble_point(const Eigen::VectorXd& x_in
     T_K += change;
     if (std::abs(change) < temperature_tolerance_K) {
       gamma = activity(x, T_K);
-      saturation(T_K);
+      for (Index k = 0; k < x.size(); ++k) saturation_of(k, T_K);
       StageEquilibrium e;
       e.temperature = kelvin(T_K);
       e.K = Eigen::VectorXd::Zero(x.size());
       for (Index k = 0; k < x.size(); ++k) e.K[k] = gamma[k] * psat[k] / pressure_Pa_;
       return e;
     }
+  }
+  return fallback();
+}
+
+Temperature ModifiedRaoultKValues::dew_point(const Eigen::VectorXd& y_in, std::optional<Temperature> guess) const {
+  const ComponentSet& components = *components_;
+  const auto n = static_cast<Index>(components.size());
+  auto fallback = [&] { return dew_temperature(y_in); };
+  const double y_total = y_in.size() == n ? y_in.sum() : 0.0;
+  if (!guess || !(y_total > 0.0)) return fallback();
+  for (Index i = 0; i < n; ++i) {
+    const Component& c = components[static_cast<std::size_t>(i)];
+    if (y_in[i] != 0.0 && (!(y_in[i] > 0.0) || c.kind != ComponentKind::volatile_liquid || !c.vapour_pressure))
+      return fallback();  // let the project's routine handle or report it
+  }
+  const Eigen::VectorXd y = y_in / y_total;
+  Eigen::VectorXd gamma = Eigen::VectorXd::Ones(n);
+  Eigen::VectorXd x = Eigen::VectorXd::Zero(n);
+  double T_K = in_kelvin(*guess);
+  // Successive substitution on gamma, as unchain::dew_temperature does at
+  // each trial temperature (undamped first, then damped by half), with a
+  // Newton step on T between substitutions.
+  constexpr int max_steps = 200;
+  constexpr int undamped_steps = 50;
+  constexpr double temperature_tolerance_K = 1e-10;
+  constexpr double ln_gamma_tolerance = 1e-13;
+  for (int step = 0; step < max_steps; ++step) {
+    if (!(T_K > 100.0) || !std::isfinite(T_K)) return fallback();
+    double inverse_P = 0.0, slope = 0.0;
+    for (Index i = 0; i < n; ++i) {
+      x[i] = 0.0;
+      if (y[i] == 0.0) continue;
+      const Saturation s = antoine(*components[static_cast<std::size_t>(i)].vapour_pressure, T_K);
+      if (!(s.pressure_Pa > 0.0)) return fallback();
+      x[i] = y[i] / (gamma[i] * s.pressure_Pa);
+      inverse_P += x[i];
+      slope += x[i] * s.log_slope_per_K;
+    }
+    x /= inverse_P;  // the dew liquid, x_i = y_i P_dew / (gamma_i Psat_i)
+    slope /= inverse_P;
+    if (!(slope > 0.0)) return fallback();
+    // ln P_dew = -ln sum y_i / (gamma_i Psat_i); its slope in T, gamma held,
+    // is sum x_i d ln Psat_i / dT.
+    const double change = std::clamp(std::log(pressure_Pa_ * inverse_P) / slope, -25.0, 25.0);
+    const Eigen::VectorXd next = activity(x, T_K);
+    double gamma_change = 0.0;
+    for (Index i = 0; i < n; ++i)
+      if (y[i] != 0.0) gamma_change = std::max(gamma_change, std::abs(std::log(next[i] / gamma[i])));
+    if (step < undamped_steps) {
+      gamma = next;
+    } else {
+      for (Index i = 0; i < n; ++i) gamma[i] = std::exp(0.5 * (std::log(next[i]) + std::log(gamma[i])));
+    }
+    T_K += change;
+    if (std::abs(change) < temperature_tolerance_K && gamma_change < ln_gamma_tolerance) return kelvin(T_K);
   }
   return fallback();
 }
@@ -283,6 +427,9 @@ ColumnState solve_column(const KValueModel& model, const Eigen::VectorXd& still_
     }
     std::vector<Eigen::VectorXd> K(N);
     std::vector<double> c_prime(N), d_prime(N);
+    std::vector<Eigen::VectorXd> next(N, Eigen::VectorXd::Zero(n));
+    AndersonMixing mixing(static_cast<Index>(N) * n);
+    Eigen::VectorXd packed_x(static_cast<Index>(N) * n), packed_next(static_cast<Index>(N) * n);
 
     bool converged = false;
     int iteration = 0;
@@ -291,8 +438,10 @@ ColumnState solve_column(const KValueModel& model, const Eigen::VectorXd& still_
         std::ostringstream message;
         message << "column with " << N << " stages at reflux ratio " << reflux_ratio
                 << ": stage compositions did not settle in " << max_column_iterations << " passes";
+
         throw ConvergenceError(message.str());
       }
+      if (iteration == plain_pass_limit) mixing.mix_from_anywhere();
       for (std::size_t k = 0; k < N; ++k) {
         StageEquilibrium e = model.bubble_point(x[k], T[k]);
         T[k] = e.temperature;
@@ -304,9 +453,11 @@ ColumnState solve_column(const KValueModel& model, const Eigen::VectorXd& still_
       // L x_D = L K_N x_N. Written with a positive diagonal and solved by
       // the Thomas algorithm, which is stable here: the matrix is
       // column-wise diagonally dominant.
-      std::vector<Eigen::VectorXd> next(N, Eigen::VectorXd::Zero(n));
       for (Index i = 0; i < n; ++i) {
-        if (state.still_vapour[i] == 0.0) continue;  // never reaches the column
+        if (state.still_vapour[i] == 0.0) {  // never reaches the column
+          for (std::size_t k = 0; k < N; ++k) next[k][i] = 0.0;
+          continue;
+        }
         for (std::size_t k = 0; k < N; ++k) {
           const double diag = k + 1 < N ? L + V * K[k][i] : L + D * K[k][i];
           const double sub = k > 0 ? -V * K[k - 1][i] : 0.0;
@@ -323,9 +474,36 @@ ColumnState solve_column(const KValueModel& model, const Eigen::VectorXd& still_
       for (std::size_t k = 0; k < N; ++k) {
         next[k] = normalised(next[k].cwiseMax(0.0), "a column stage");
         change = std::max(change, (next[k] - x[k]).cwiseAbs().maxCoeff());
-        x[k] = std::move(next[k]);
       }
       converged = change < composition_tolerance;
+      if (converged) {
+        x.swap(next);
+        break;
+      }
+      // The pass above is the bubble-point method's fixed-point map
+      // x -> G(x); it converges only linearly, slowly at high reflux. The
+      // next estimate mixes the last few passes (Anderson acceleration),
+      // which reaches the same fixed point in far fewer passes.
+      for (std::size_t k = 0; k < N; ++k) {
+        packed_x.segment(static_cast<Index>(k) * n, n) = x[k];
+        packed_next.segment(static_cast<Index>(k) * n, n) = next[k];
+      }
+      const Eigen::VectorXd& estimate = mixing.next_estimate(packed_x, packed_next);
+      bool usable = true;
+      for (std::size_t k = 0; k < N && usable; ++k) {
+        Eigen::VectorXd stage = estimate.segment(static_cast<Index>(k) * n, n).cwiseMax(0.0);
+        const double total = stage.sum();
+        if (!(total > 0.0) || !std::isfinite(total)) {
+          usable = false;
+          break;
+        }
+        next[k] = stage / total;
+      }
+      if (!usable) {  // fall back on the plain pass and start the mixing afresh
+        mixing.reset();
+        for (std::size_t k = 0; k < N; ++k) next[k] = packed_next.segment(static_cast<Index>(k) * n, n);
+      }
+      x.swap(next);
     }
     for (std::size_t k = 0; k < N; ++k) {
       StageEquilibrium e = model.bubble_point(x[k], T[k]);
@@ -337,7 +515,9 @@ ColumnState solve_column(const KValueModel& model, const Eigen::VectorXd& still_
     state.stage_temperature = std::move(T);
     state.iterations = iteration;
   }
-  state.head_temperature = model.dew_temperature(state.distillate);
+  state.head_temperature =
+      model.dew_point(state.distillate, start != nullptr ? std::optional<Temperature>(start->head_temperature)
+                                                         : std::nullopt);
   state.condensate_temperature =
       model
           .bubble_point(state.distillate, start != nullptr ? std::optional<Temperature>(start->condensate_temperature)
@@ -401,6 +581,9 @@ class BatchStill {
   double charge_mass_ = 0.0;
   double distilled_mass_ = 0.0;
   StillStop stop_ = StillStop::all_cuts_taken;
+  int halvings_ = 0;  // of the nominal step, in the last step taken
+  ColumnState previous_column_;  // at the start of the last step taken
+  double previous_h_ = 0.0;      // its size
 
   [[nodiscard]] double mass_of(const Eigen::VectorXd& moles) const { return moles.dot(settings_.molar_masses); }
   [[nodiscard]] double residue_floor_mass() const { return settings_.minimum_residue_fraction * charge_mass_; }
@@ -419,8 +602,9 @@ class BatchStill {
     StepTrial t;
     t.h = h;
     const Eigen::VectorXd predicted = (still_ - h * column_.distillate).cwiseMax(0.0);
+    const ColumnState start = extrapolated_column(h);
     const ColumnState column_predicted =
-        solve_column(model_, predicted, settings_.stages_above_still, settings_.reflux_ratio, &column_);
+        solve_column(model_, predicted, settings_.stages_above_still, settings_.reflux_ratio, &start);
     // The packet can never take more of a component than the still holds;
     // the balance closes because what leaves the still is what the cut gets.
     t.packet = (0.5 * h * (column_.distillate + column_predicted.distillate)).cwiseMax(0.0).cwiseMin(still_);
@@ -478,7 +662,36 @@ class BatchStill {
     ++outcome.steps;
     distilled_mass_ += t.packet_mass;
     still_ = t.still_after;
+    previous_column_ = std::move(column_);
+    previous_h_ = t.h;
     column_ = t.column_after;
+  }
+
+  // The first estimate of the column a step of h ahead: the stage profile
+  // carried on along the last step's change, in proportion to the step
+  // (at most twice the last one), clipped and normalised. Only the number
+  // of passes depends on it, not the solution.
+  [[nodiscard]] ColumnState extrapolated_column(double h) const {
+    if (!(previous_h_ > 0.0) || previous_column_.stage_liquid.size() != column_.stage_liquid.size() ||
+        column_.stage_liquid.empty())
+      return column_;
+    const double r = std::min(h / previous_h_, 2.0);
+    ColumnState guess = column_;
+    auto ahead = [&](Temperature now, Temperature before) {
+      return kelvin(in_kelvin(now) + r * (in_kelvin(now) - in_kelvin(before)));
+    };
+    for (std::size_t k = 0; k < guess.stage_liquid.size(); ++k) {
+      Eigen::VectorXd x = (column_.stage_liquid[k] + r * (column_.stage_liquid[k] - previous_column_.stage_liquid[k]))
+                              .cwiseMax(0.0);
+      const double total = x.sum();
+      if (!(total > 0.0) || !std::isfinite(total)) return column_;
+      guess.stage_liquid[k] = x / total;
+      guess.stage_temperature[k] = ahead(column_.stage_temperature[k], previous_column_.stage_temperature[k]);
+    }
+    guess.still_temperature = ahead(column_.still_temperature, previous_column_.still_temperature);
+    guess.head_temperature = ahead(column_.head_temperature, previous_column_.head_temperature);
+    guess.condensate_temperature = ahead(column_.condensate_temperature, previous_column_.condensate_temperature);
+    return guess;
   }
 
   [[nodiscard]] double nominal_step(const CutTarget& target) const {
@@ -506,14 +719,36 @@ class BatchStill {
     const double nominal = nominal_step(target);
     const long max_steps = 1000L * settings_.steps_per_cut + 10000L;
     for (long step = 0; step < max_steps; ++step) {
-      double h = std::min(nominal, 0.5 * still_.sum());
-      StepTrial t = trial(h);
-      while (std::abs(in_kelvin(t.column_after.head_temperature) - in_kelvin(column_.head_temperature)) >
-                 max_head_change_K &&
-             h > nominal / 1024.0) {
-        h *= 0.5;
-        t = trial(h);
+      // The step is the nominal one halved j times, j the fewest halvings
+      // (at most down to 1/1024 of the nominal) after which the head
+      // temperature moves by no more than the limit. The search for j
+      // starts from the previous step's: across a break j stays put for
+      // many steps, and scanning up from j = 0 each time cost most of the
+      // trials. The change grows with the step, so the j found is the one
+      // a scan from zero would find.
+      const double base = std::min(nominal, 0.5 * still_.sum());
+      auto may_halve = [&](int j) { return std::ldexp(base, -j) > nominal / 1024.0; };
+      auto too_steep = [&](const StepTrial& s) {
+        return std::abs(in_kelvin(s.column_after.head_temperature) - in_kelvin(column_.head_temperature)) >
+               max_head_change_K;
+      };
+      int j = 0;
+      while (j < halvings_ && may_halve(j)) ++j;
+      StepTrial t = trial(std::ldexp(base, -j));
+      if (too_steep(t)) {
+        while (may_halve(j)) {
+          t = trial(std::ldexp(base, -++j));
+          if (!too_steep(t)) break;
+        }
+      } else {
+        while (j > 0) {
+          StepTrial larger = trial(std::ldexp(base, -(j - 1)));
+          if (too_steep(larger)) break;
+          t = std::move(larger);
+          --j;
+        }
       }
+      halvings_ = j;
       // Which events happen within this step, and which comes first.
       enum class Event { none, cut_end, residue, still_temperature };
       Event first = Event::none;

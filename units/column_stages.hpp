@@ -9,7 +9,8 @@
 // stage-to-stage balances, solved per component as a tridiagonal system for
 // fixed K-values and iterated on the stage bubble temperatures (the
 // bubble-point method of Wang and Henke, Hydrocarbon Processing 45(8) (1966)
-// 155). Equations, conventions and ranges: docs/blocks-separation.md.
+// 155), its passes sped up by Anderson acceleration near the solution.
+// Equations, conventions and ranges: docs/blocks-separation.md.
 //
 // The K-value source is an interface so that tests can run the column at
 // a constant relative volatility, where closed forms exist; the blocks use
@@ -57,6 +58,11 @@ class KValueModel {
     e.K = k_values(x, e.temperature);
     return e;
   }
+  // Dew point of a vapour y; `guess` as for bubble_point.
+  [[nodiscard]] virtual Temperature dew_point(const Eigen::VectorXd& y, std::optional<Temperature> guess) const {
+    (void)guess;
+    return dew_temperature(y);
+  }
 };
 
 // Modified Raoult's law, K_i = gamma_i(x, T) Psat_i(T) / P, with the
@@ -77,6 +83,11 @@ class ModifiedRaoultKValues final : public KValueModel {
   // on); the column calls this thousands of times per batch.
   [[nodiscard]] StageEquilibrium bubble_point(const Eigen::VectorXd& x,
                                               std::optional<Temperature> guess) const override;
+  // Newton's method on ln(P_dew(T) / P) from the guess, with the liquid in
+  // equilibrium (x_i = y_i P / (gamma_i Psat_i)) and its activity
+  // coefficients iterated alongside: the fixed point unchain::dew_temperature
+  // brackets (which it falls back on, and which it uses without a guess).
+  [[nodiscard]] Temperature dew_point(const Eigen::VectorXd& y, std::optional<Temperature> guess) const override;
   [[nodiscard]] Pressure pressure() const { return pascal(pressure_Pa_); }
 
  private:

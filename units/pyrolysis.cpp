@@ -5,6 +5,7 @@
 #include <memory>
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "flowsheet/diagnostics.hpp"
@@ -13,7 +14,9 @@
 #include "units/block_helpers.hpp"
 #include "units/block_registry.hpp"
 #include "units/element_closure.hpp"
+#include "units/pyrolysis_continuous.hpp"
 #include "units/pyrolysis_kinetics.hpp"
+#include "units/pyrolysis_parts.hpp"
 #include "units/vessel_heating.hpp"
 #include "units/yield_table.hpp"
 
@@ -21,97 +24,13 @@ namespace unchain::units {
 
 namespace {
 
-// The usual range of pyrolysis for monomer recovery, and the hard limits
-// outside which the lumped kinetics and the vessel model mean nothing.
-constexpr double usual_low_C = 400.0;
-constexpr double usual_high_C = 600.0;
+// The hard limits outside which the lumped kinetics and the vessel model
+// mean nothing.
 constexpr double lowest_C = 300.0;
 constexpr double highest_C = 900.0;
-// Purge flows are stated at 0 degC and 1 atm ("normal" litres).
-constexpr double normal_temperature_K = 273.15;
-// A warning when more than this fraction of the charge is moved by the
-// element closure, and when more than this share of the conversion happens
-// below the kinetic set's range during heat-up.
-constexpr double closure_warning_fraction = 0.01;
+// A warning when more than this share of the conversion happens below the
+// kinetic set's range during heat-up.
 constexpr double heat_up_extrapolation_share = 0.10;
-
-enum class YieldSource { kinetics, table };
-
-struct PyrolysisSettings {
-  std::size_t polymer = 0;
-  Volume reactor_volume = from_si<Volume>(0.0);
-  double fill_fraction = 0.5;
-  std::optional<Density> feed_bulk_density;
-  Temperature reactor_temperature = celsius(500.0);
-  Pressure pressure = pascal(standard_atmosphere_Pa);
-  std::optional<VolumeFlow> inert_gas_flow;  // at 0 degC, 1 atm
-  YieldSource yields = YieldSource::kinetics;
-  KineticSet kinetics;
-  std::vector<std::size_t> channel_products;  // component index of each kinetic channel
-  std::optional<YieldTable> table;
-  std::vector<std::size_t> table_products;    // component index of each table product
-  std::optional<Time> hold_time;
-  std::optional<double> target_conversion;
-  bool integrate_heat_up = true;
-  std::vector<std::size_t> closure_species;
-  double closure_limit = 0.05;
-  std::optional<Temperature> residue_discharge_temperature;
-  HeatSource heat_source = HeatSource::electric;
-  double burner_efficiency = 1.0;
-  Time cool_down_time = seconds(0.0);
-  Time turnaround_time = seconds(0.0);
-  VesselDesign vessel;
-  bool valid = false;  // every parameter read without error
-};
-
-Energy enthalpy_at(const Stream& s, Temperature T, Warnings* warnings) {
-  Stream copy = s;
-  copy.set_temperature(T);
-  return copy.enthalpy(warnings);
-}
-
-// Everything in a condensed state (volatiles liquid, gases as gas, solids
-// solid) at T.
-Energy condensed_enthalpy_at(const Stream& s, Temperature T, Warnings* warnings) {
-  Stream copy = s;
-  copy.collapse_into(Phase::liquid);
-  copy.set_temperature(T);
-  return copy.enthalpy(warnings);
-}
-
-// The heat of a charge going to its products, along the path
-//   feed (T_feed) -> feed (298.15 K) -> products, condensed (298.15 K)
-//   -> products in their outlet phases (298.15 K) -> products (T_out):
-// the four parts sum to H_products(T_out) - H_feed(T_feed) exactly.
-struct HeatSplit {
-  double sensible_feed_J = 0.0;      // H_feed(298.15) - H_feed(T_feed)
-  double reaction_J = 0.0;           // condensed products less condensed feed, at 298.15 K
-  double vaporization_J = 0.0;       // to the outlet phases at 298.15 K (products less feed)
-  double sensible_products_J = 0.0;  // H_products(T_out) - H_products(298.15)
-  [[nodiscard]] double total() const { return sensible_feed_J + reaction_J + vaporization_J + sensible_products_J; }
-  [[nodiscard]] double sensible() const { return sensible_feed_J + sensible_products_J; }
-};
-
-HeatSplit split_heat(const Stream& feed, const std::vector<const Stream*>& products, Warnings& warnings) {
-  // At the reference temperature no heat-capacity correlation is integrated,
-  // so those evaluations raise no range warnings.
-  const Temperature T0 = kelvin(reference_temperature_K);
-  HeatSplit s;
-  const double feed_in = to_si(feed.enthalpy(&warnings));
-  const double feed_298 = to_si(enthalpy_at(feed, T0, nullptr));
-  const double feed_condensed_298 = to_si(condensed_enthalpy_at(feed, T0, nullptr));
-  double out = 0.0, out_298 = 0.0, out_condensed_298 = 0.0;
-  for (const Stream* p : products) {
-    out += to_si(p->enthalpy(&warnings));
-    out_298 += to_si(enthalpy_at(*p, T0, nullptr));
-    out_condensed_298 += to_si(condensed_enthalpy_at(*p, T0, nullptr));
-  }
-  s.sensible_feed_J = feed_298 - feed_in;
-  s.reaction_J = out_condensed_298 - feed_condensed_298;
-  s.vaporization_J = (out_298 - out_condensed_298) - (feed_298 - feed_condensed_298);
-  s.sensible_products_J = out - out_298;
-  return s;
-}
 
 // Conversion and raw (unclosed) yields of one run.
 struct RunKinetics {
@@ -127,12 +46,16 @@ class Pyrolysis final : public BlockModel {
   explicit Pyrolysis(PyrolysisSettings settings) : s_(std::move(settings)) {}
 
   [[nodiscard]] std::vector<PortSpec> inlet_ports() const override {
-    return {single_port("feed", "polymer charge (solid), with any residual solvent; its bulk density sets the charge"),
+    return {single_port("feed", s_.continuous
+                                    ? "polymer fed by the hour (solid or melt), with any residual solvent"
+                                    : "polymer charge (solid), with any residual solvent; its bulk density sets the "
+                                      "charge"),
             optional_port("inert_gas", "purge gas (nitrogen) through the reactor")};
   }
   [[nodiscard]] std::vector<PortSpec> outlet_ports() const override {
     return {single_port("vapour", "pyrolysis vapour and gas with the purge gas, at the reactor temperature"),
-            single_port("residue", "char and unconverted polymer left in the reactor")};
+            single_port("residue", s_.continuous ? "char and unconverted polymer drawn off with the melt bleed"
+                                                 : "char and unconverted polymer left in the reactor")};
   }
 
   void compute(const BlockContext& context, const BlockPorts& ports, BlockResources& resources) const override;
@@ -140,6 +63,7 @@ class Pyrolysis final : public BlockModel {
  private:
   PyrolysisSettings s_;
 
+  void compute_batch(const BlockContext& context, const BlockPorts& ports, BlockResources& resources) const;
   [[nodiscard]] RunKinetics run_kinetics(const std::function<Temperature(Time)>& history, Time heat_up,
                                          std::size_t size) const;
 };
@@ -194,8 +118,16 @@ RunKinetics Pyrolysis::run_kinetics(const std::function<Temperature(Time)>& hist
 void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, BlockResources& resources) const {
   const std::string who = "pyrolysis '" + context.block_name + "'";
   if (!s_.valid) throw ModelError(who + ": the block's parameters have errors (see the messages above)");
+  if (s_.continuous) {
+    compute_continuous_pyrolysis(s_, context, ports, resources);
+    return;
+  }
+  compute_batch(context, ports, resources);
+}
+
+void Pyrolysis::compute_batch(const BlockContext& context, const BlockPorts& ports, BlockResources& resources) const {
+  const std::string who = "pyrolysis '" + context.block_name + "'";
   const ComponentSet& cs = context.components;
-  const auto P = static_cast<Eigen::Index>(s_.polymer);
   const Component& polymer = cs[s_.polymer];
   const Stream& feed = ports.inlet("feed");
   const Stream* inert = ports.has_inlet("inert_gas") ? &ports.inlet("inert_gas") : nullptr;
@@ -205,11 +137,9 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
   Warnings& warnings = context.warnings;
 
   // ---- the charge and the number of runs ----
-  const Eigen::VectorXd condensed = feed.phase_masses(Phase::solid) + feed.phase_masses(Phase::liquid);
-  const double polymer_kg = condensed[P];
-  if (!(polymer_kg > 0.0))
-    throw ModelError(who + ": the feed carries no " + polymer.id + " in its solid or liquid phase (expected a polymer charge)");
-  const double charge_kg = condensed.sum();
+  const PyrolysisFeed whole = pyrolysis_feed(s_, cs, feed, who);
+  const double polymer_kg = whole.polymer_kg;
+  const double charge_kg = whole.charge_kg;
   std::optional<Density> bulk = feed.bulk_density();
   if (bulk && s_.feed_bulk_density && std::abs(to_si(*bulk) - to_si(*s_.feed_bulk_density)) > 0.01 * to_si(*bulk))
     warnings.add(who + ": the feed stream's bulk density (" + format_number(to_si(*bulk), 4) +
@@ -226,13 +156,7 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
   const double polymer_per_run_kg = polymer_kg / runs;
 
   // ---- range checks ----
-  const double Tr_C = in_celsius(Tr);
-  if (Tr_C < usual_low_C || Tr_C > usual_high_C)
-    warnings.add(who + ": reactor temperature " + format_celsius(Tr) +
-                 " is outside the usual range of pyrolysis for monomer recovery, 400 to 600 degC");
-  s_.kinetics.check_range(Tr, who, warnings);
-  std::vector<double> table_yields;
-  if (s_.yields == YieldSource::table) table_yields = s_.table->at(Tr, who, warnings);
+  const std::vector<double> table_yields = check_pyrolysis_conditions(s_, cs, whole, who, warnings);
 
   // ---- the heat-up, the kinetics and the products, solved together ----
   // The charge's heat capacity sets the heat-up history, which sets the
@@ -243,19 +167,10 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
   const double dT = Tr_K - in_kelvin(T_feed);
   const HeatCapacity vessel_C = s_.vessel.vessel_heat_capacity;
   const ThermalConductance UA = s_.vessel.loss_conductance();
-  const bool other_polymer = [&] {
-    for (std::size_t i = 0; i < cs.size(); ++i)
-      if (i != s_.polymer && cs[i].kind == ComponentKind::polymer && condensed[static_cast<Eigen::Index>(i)] > 0.0)
-        return true;
-    return false;
-  }();
-  if (other_polymer)
-    warnings.add(who + ": the feed holds another polymer besides " + polymer.id +
-                 "; it is not converted and leaves with the residue");
 
   RunKinetics kin;
   ElementClosure closure;
-  Stream charge_vapour(cs), residue_hot(cs);
+  ProductStreams products{Stream(cs), Stream(cs)};
   HeatSplit split;
   double charge_C = 0.0;  // J/K per run
   Time heat_up = seconds(0.0);
@@ -279,23 +194,8 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
     closure = close_element_balance(cs, s_.polymer, kin.yields, s_.closure_species, limit);
 
     // The products of the charge (without purge gas), batch totals.
-    charge_vapour = Stream(cs);
-    residue_hot = Stream(cs);
-    const double converted_kg = kin.conversion * polymer_kg;
-    for (std::size_t i = 0; i < cs.size(); ++i) {
-      const auto ii = static_cast<Eigen::Index>(i);
-      const double made = converted_kg * closure.yields[ii];
-      const double from_feed = i == s_.polymer ? 0.0 : condensed[ii] + feed.phase_masses(Phase::vapour)[ii];
-      const double unconverted = i == s_.polymer ? polymer_kg - converted_kg : 0.0;
-      if (cs[i].is_condensed_only()) {
-        residue_hot.set_mass(Phase::solid, i, kilograms(made + from_feed + unconverted));
-      } else {
-        charge_vapour.set_mass(Phase::vapour, i, kilograms(made + from_feed));
-      }
-    }
-    set_state(charge_vapour, Tr, s_.pressure);
-    set_state(residue_hot, Tr, s_.pressure);
-    split = split_heat(feed, {&charge_vapour, &residue_hot}, warnings);
+    products = pyrolysis_products(s_, cs, feed, whole, kin.conversion, closure.yields);
+    split = split_heat(feed, {&products.vapour, &products.residue}, warnings);
     const double new_C = dT > 0.0 ? std::max(0.0, split.sensible()) / runs / dT : 0.0;
     settled = std::abs(new_C - charge_C) <= 1e-12 * std::max(new_C, 1.0);
     charge_C = new_C;
@@ -308,36 +208,15 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
                  " % of the conversion happens during heat-up below " + format_celsius(*s_.kinetics.valid_from) +
                  ", where the product selectivities of the kinetic set are extrapolated");
   const double closure_fraction = closure.total_adjustment * kin.conversion;  // of the charge of polymer
-  if (closure_fraction > closure_warning_fraction)
+  if (closure_fraction > pyrolysis_closure_warning_fraction)
     warnings.add(who + ": closing the element balance of the yields moves " +
                  format_number(100.0 * closure_fraction, 3) + " % of the polymer charged (above 1 %)");
 
   // ---- purge gas and the time at set-point ----
-  const std::optional<std::size_t> nitrogen = cs.index_of("nitrogen");
-  const double purge_flow = s_.inert_gas_flow ? to_si(*s_.inert_gas_flow) : 0.0;  // m3/s at 0 degC, 1 atm
-  const bool purge_added = inert == nullptr && purge_flow > 0.0;
-  if (purge_added && !nitrogen)
-    throw ModelError(who + ": inert_gas_flow is given without an inert_gas inlet, so nitrogen is added to the "
-                           "vapour, but 'nitrogen' is not among the case's components (expected nitrogen in the "
-                           "component list, or an inert_gas inlet stream)");
-  if (inert != nullptr && purge_flow > 0.0)
-    warnings.add(who + ": the inert_gas inlet supplies the purge; inert_gas_flow is not used");
-  // Purge nitrogen per second (kg/s) and the heat to take it from 25 degC
-  // to the reactor temperature (W): it enters at the reference state.
-  double purge_kg_per_s = 0.0, purge_heating_W = 0.0;
-  if (purge_added) {
-    const Component& n2 = cs[*nitrogen];
-    const double mol_per_s = standard_atmosphere_Pa * purge_flow / (gas_constant_J_per_mol_K * normal_temperature_K);
-    purge_kg_per_s = mol_per_s * n2.molar_mass;
-    purge_heating_W = mol_per_s * to_si(vapour_molar_enthalpy(n2, Tr, &warnings));
-  }
-  double inert_inlet_heating_J = 0.0;  // per batch
-  if (inert != nullptr && !inert->is_empty()) {
-    Stream hot = *inert;
-    hot.collapse_into(Phase::vapour);
-    set_state(hot, Tr, s_.pressure);
-    inert_inlet_heating_J = to_si(hot.enthalpy(&warnings)) - to_si(inert->enthalpy(&warnings));
-  }
+  const PurgeSupply purge = purge_supply(s_, cs, inert, who, warnings);
+  const double purge_kg_per_s = purge.kg_per_s;    // nitrogen added (kg/s)
+  const double purge_heating_W = purge.heating_W;  // from 25 degC to the reactor temperature (W)
+  const double inert_inlet_heating_J = purge.inlet_heating_J;  // per batch
 
   // Per run: the heat at set-point is the reaction, the vaporization and the
   // purge gas heating over the whole hot period t_h + t_set. When the heater
@@ -370,18 +249,7 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
   // ---- the outlets ----
   Stream& vapour = ports.outlet("vapour");
   Stream& residue = ports.outlet("residue");
-  vapour = charge_vapour;
-  if (inert != nullptr) {
-    Stream gas = *inert;
-    gas.collapse_into(Phase::vapour);
-    vapour.add_contents(gas);
-  }
-  if (purge_added) vapour.add_mass(Phase::vapour, *nitrogen, kilograms(purge_kg));
-  set_state(vapour, Tr, s_.pressure);
-  vapour.set_bulk_density(std::nullopt);
-  residue = residue_hot;
-  const Temperature T_residue = s_.residue_discharge_temperature.value_or(Tr);
-  set_state(residue, T_residue, s_.pressure);
+  fill_pyrolysis_outlets(s_, products, inert, purge, purge_kg, vapour, residue);
 
   // ---- energy ----
   // The streams' balance: process heat = sum H_out - sum H_in, with the purge
@@ -389,7 +257,7 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
   double H_in = to_si(feed.enthalpy(&warnings));
   if (inert != nullptr) H_in += to_si(inert->enthalpy(&warnings));
   const double H_out = to_si(vapour.enthalpy(&warnings)) + to_si(residue.enthalpy(&warnings));
-  const double residue_cooling = to_si(residue_hot.enthalpy(&warnings)) - to_si(residue.enthalpy(&warnings));
+  const double residue_cooling = to_si(products.residue.enthalpy(&warnings)) - to_si(residue.enthalpy(&warnings));
   resources.process_heat_J = H_out - H_in;
   // What the heater gives per run (vessel model): charge, vessel, wall
   // losses and the heat at set-point; the residue cools afterwards to the
@@ -407,7 +275,7 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
   const double run_duration = hot_time + to_si(s_.cool_down_time) + to_si(s_.turnaround_time);
   resources.duration_s = run_duration * runs;
 
-  if (purge_added)
+  if (purge.added)
     resources.materials.push_back({"nitrogen purge", "inert_gas", purge_kg, "kg"});
   resources.equipment.push_back({"pyrolysis reactor", "vessel", "volume", to_si(s_.reactor_volume), "m3"});
   resources.equipment.push_back({"pyrolysis reactor heater", "heater", "power", to_si(s_.vessel.heater_power), "W"});
@@ -437,13 +305,7 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
       fig("monomer_yield", to_si(vapour.mass(Phase::vapour, *m)) / polymer_kg, "kg/kg",
           "monomer in the vapour per kg of polymer charged");
   }
-  fig("element_closure_adjustment_kg", closure.total_adjustment * kin.conversion * polymer_kg, "kg",
-      "sum of the changes to the closure species' yields");
-  fig("element_closure_adjustment_fraction", closure_fraction, "-", "closure adjustment per kg of polymer charged");
-  for (std::size_t j : s_.closure_species)
-    fig("element_closure_" + cs[j].id + "_kg",
-        closure.adjustment[static_cast<Eigen::Index>(j)] * kin.conversion * polymer_kg, "kg",
-        "change to the yield of " + cs[j].id + " that closes the elements");
+  add_closure_figures(s_, cs, closure, kin.conversion * polymer_kg, closure_fraction, resources);
   fig("process_heat", resources.process_heat_J, "J", "sum H_out - sum H_in of the streams");
   fig("sensible_heat_feed_to_298K", split.sensible_feed_J, "J", "bringing the feed to 25 degC");
   fig("reaction_heat_298K", split.reaction_J, "J", "reaction to condensed products at 25 degC");
@@ -458,30 +320,14 @@ void Pyrolysis::compute(const BlockContext& context, const BlockPorts& ports, Bl
   fig("loss_at_set_point", to_si(heating.loss_at_set_point), "W", "wall loss at the reactor temperature");
   fig("max_reachable_temperature", in_kelvin(heating.max_reachable_temperature), "K", "ambient + P/UA");
   fig("heater_energy_per_kg_polymer", drawn_by_heater / polymer_kg, "J/kg", "heat given per kg of polymer charged");
-  if (purge_added) {
+  if (purge.added) {
     fig("nitrogen_purge_kg", purge_kg, "kg", "nitrogen added to the vapour by the purge");
-    fig("nitrogen_purge_normal_volume", purge_flow * hot_time * runs, "m3", "purge volume at 0 degC, 1 atm");
+    fig("nitrogen_purge_normal_volume", purge.flow_normal_m3_per_s * hot_time * runs, "m3",
+        "purge volume at 0 degC, 1 atm");
   }
 
   // ---- cautions ----
-  resources.cautions.push_back(
-      "Hot surfaces and glassware at " + format_celsius(Tr) +
-      ": guard the reactor, use a heating mantle or furnace rated for the temperature, and never open it hot.");
-  resources.cautions.push_back(
-      "Pyrolysis needs an inert atmosphere: purge the reactor with nitrogen before heating and keep the purge on; "
-      "air drawn into a hot reactor holding pyrolysis vapour can ignite or explode.");
-  resources.cautions.push_back(
-      "Pyrolysis gas (hydrogen, methane, ethylene and aromatic vapour) is flammable: lead it through the condenser "
-      "to a flare or a safe vent, never into the room.");
-  resources.cautions.push_back(
-      "Styrene vapour is harmful by inhalation: work in a fume hood or with local exhaust; the condensed monomer "
-      "can self-polymerise (add inhibitor, store cool).");
-  resources.cautions.push_back(
-      "Char may be pyrophoric when hot: let the residue cool under nitrogen before opening the reactor, and dispose "
-      "of residue under local rules.");
-  const auto flammable = flammable_vapours(vapour);
-  const std::string vapour_caution = flammable_vapour_caution("pyrolysis vapour", flammable);
-  if (!vapour_caution.empty()) resources.cautions.push_back(vapour_caution);
+  add_pyrolysis_cautions(s_, vapour, resources);
 }
 
 // ---- reading the parameters ----------------------------------------------------
@@ -546,9 +392,17 @@ std::unique_ptr<BlockModel> make_pyrolysis(MappingReader& p, const BlockSetup& s
   const ComponentSet& cs = setup.components;
   PyrolysisSettings s;
   bool ok = true;
-  if (setup.basis != Basis::batch) {
-    p.error({}, "'" + p.path() + "': the pyrolysis block is a batch reactor (expected basis: batch, found " +
-                    basis_name(setup.basis) + ")");
+  s.continuous = setup.basis == Basis::continuous;
+  // Keys of the other mode are refused by name: a batch hold time means
+  // nothing to a stirred reactor fed by the hour, and the other way round.
+  const std::vector<std::string_view> batch_only = {"feed_bulk_density", "hold_time", "target_conversion",
+                                                     "heat_up_conversion", "cool_down_time", "turnaround_time"};
+  const std::vector<std::string_view> continuous_only = {"melt_density", "residence_time"};
+  for (const std::string_view key : s.continuous ? batch_only : continuous_only) {
+    if (!p.has(key)) continue;
+    p.error(key, "'" + key_path(p, key) + "' applies only to basis: " + (s.continuous ? "batch" : "continuous") +
+                     " (the case has basis: " + basis_name(setup.basis) + ")");
+    p.accept(key);
     ok = false;
   }
 
@@ -570,10 +424,33 @@ std::unique_ptr<BlockModel> make_pyrolysis(MappingReader& p, const BlockSetup& s
   }
   if (!volume_ok) ok = false;
   s.fill_fraction = p.number_in("fill_fraction", 0.5, 1e-6, 1.0);
-  s.feed_bulk_density = p.optional_quantity<Density>("feed_bulk_density");
-  if (s.feed_bulk_density && !(to_si(*s.feed_bulk_density) > 0.0)) {
-    p.error("feed_bulk_density", "'" + key_path(p, "feed_bulk_density") + "' must be positive");
-    ok = false;
+  if (!s.continuous) {
+    s.feed_bulk_density = p.optional_quantity<Density>("feed_bulk_density");
+    if (s.feed_bulk_density && !(to_si(*s.feed_bulk_density) > 0.0)) {
+      p.error("feed_bulk_density", "'" + key_path(p, "feed_bulk_density") + "' must be positive");
+      ok = false;
+    }
+  } else {
+    // The melt holdup sets the residence time, unless it is given.
+    s.melt_density = p.optional_quantity<Density>("melt_density");
+    s.residence_time = p.optional_quantity<Time>("residence_time");
+    if (s.melt_density && !(to_si(*s.melt_density) > 0.0)) {
+      p.error("melt_density", "'" + key_path(p, "melt_density") + "' must be positive");
+      ok = false;
+    }
+    if (s.residence_time && !(to_si(*s.residence_time) > 0.0)) {
+      p.error("residence_time", "'" + key_path(p, "residence_time") + "' must be positive");
+      ok = false;
+    }
+    if (!p.has("melt_density") && !p.has("residence_time")) {
+      p.error({}, "missing '" + key_path(p, "melt_density") + "' or '" + key_path(p, "residence_time") +
+                      "' on a continuous basis (expected the density of the polymer melt at the reactor "
+                      "temperature such as \"850 kg/m3\", which with the volume and fill fraction sets the "
+                      "holdup, or a mean residence time such as \"40 min\")");
+      ok = false;
+    } else if ((p.has("melt_density") && !s.melt_density) || (p.has("residence_time") && !s.residence_time)) {
+      ok = false;
+    }
   }
 
   // Conditions.
@@ -706,37 +583,39 @@ std::unique_ptr<BlockModel> make_pyrolysis(MappingReader& p, const BlockSetup& s
     }
   }
 
-  // Time at the set-point.
-  s.hold_time = p.optional_quantity<Time>("hold_time");
-  s.target_conversion = p.optional_number("target_conversion");
-  if (p.has("hold_time") && p.has("target_conversion")) {
-    p.error("target_conversion", "give either '" + key_path(p, "hold_time") + "' or '" +
-                                     key_path(p, "target_conversion") + "', not both");
-    ok = false;
-  } else if (!p.has("hold_time") && !p.has("target_conversion")) {
-    p.error({}, "missing '" + key_path(p, "hold_time") + "' or '" + key_path(p, "target_conversion") +
-                    "' (expected the time at the reactor temperature such as \"30 min\", or a conversion such as "
-                    "0.99)");
-    ok = false;
-  }
-  if (s.hold_time && to_si(*s.hold_time) < 0.0) {
-    p.error("hold_time", "'" + key_path(p, "hold_time") + "' must not be negative");
-    ok = false;
-  }
-  if (s.target_conversion && !(*s.target_conversion > 0.0 && *s.target_conversion < 1.0)) {
-    p.error("target_conversion", "'" + key_path(p, "target_conversion") + "' must be above 0 and below 1 (found " +
-                                     format_number(*s.target_conversion) + "; first-order kinetics never reach 1)");
-    ok = false;
-  }
-  const std::string heat_up_mode = p.text("heat_up_conversion", "integrate");
-  if (heat_up_mode == "integrate") {
-    s.integrate_heat_up = true;
-  } else if (heat_up_mode == "neglect") {
-    s.integrate_heat_up = false;
-  } else {
-    p.error("heat_up_conversion", "'" + key_path(p, "heat_up_conversion") + "' must be integrate or neglect (found \"" +
-                                      heat_up_mode + "\")");
-    ok = false;
+  // Time at the set-point (batch runs).
+  if (!s.continuous) {
+    s.hold_time = p.optional_quantity<Time>("hold_time");
+    s.target_conversion = p.optional_number("target_conversion");
+    if (p.has("hold_time") && p.has("target_conversion")) {
+      p.error("target_conversion", "give either '" + key_path(p, "hold_time") + "' or '" +
+                                       key_path(p, "target_conversion") + "', not both");
+      ok = false;
+    } else if (!p.has("hold_time") && !p.has("target_conversion")) {
+      p.error({}, "missing '" + key_path(p, "hold_time") + "' or '" + key_path(p, "target_conversion") +
+                      "' (expected the time at the reactor temperature such as \"30 min\", or a conversion such as "
+                      "0.99)");
+      ok = false;
+    }
+    if (s.hold_time && to_si(*s.hold_time) < 0.0) {
+      p.error("hold_time", "'" + key_path(p, "hold_time") + "' must not be negative");
+      ok = false;
+    }
+    if (s.target_conversion && !(*s.target_conversion > 0.0 && *s.target_conversion < 1.0)) {
+      p.error("target_conversion", "'" + key_path(p, "target_conversion") + "' must be above 0 and below 1 (found " +
+                                       format_number(*s.target_conversion) + "; first-order kinetics never reach 1)");
+      ok = false;
+    }
+    const std::string heat_up_mode = p.text("heat_up_conversion", "integrate");
+    if (heat_up_mode == "integrate") {
+      s.integrate_heat_up = true;
+    } else if (heat_up_mode == "neglect") {
+      s.integrate_heat_up = false;
+    } else {
+      p.error("heat_up_conversion", "'" + key_path(p, "heat_up_conversion") + "' must be integrate or neglect (found \"" +
+                                        heat_up_mode + "\")");
+      ok = false;
+    }
   }
 
   // Element closure.
@@ -795,6 +674,7 @@ std::unique_ptr<BlockModel> make_pyrolysis(MappingReader& p, const BlockSetup& s
     ok = false;
   }
   for (const char* key : {"cool_down_time", "turnaround_time"}) {
+    if (s.continuous) continue;  // refused above
     const Time t = p.quantity<Time>(key, seconds(0.0));
     if (to_si(t) < 0.0) {
       p.error(key, "'" + key_path(p, key) + "' must not be negative");
@@ -815,8 +695,8 @@ std::unique_ptr<BlockModel> make_pyrolysis(MappingReader& p, const BlockSetup& s
 
 void register_pyrolysis(BlockRegistry& registry) {
   registry.add({"pyrolysis",
-                "batch thermal depolymerization: charge by bulk density, first-order kinetics or a yield table, "
-                "element closure, vessel heat-up and losses",
+                "thermal depolymerization: batch runs charged by bulk density, or a continuous stirred melt reactor; "
+                "first-order kinetics or a yield table, element closure, vessel heat-up or steady losses",
                 make_pyrolysis});
 }
 

@@ -180,6 +180,14 @@ Time time_between_conversions(RateConstant k, double from, double to) {
   return seconds((std::log1p(-from) - std::log1p(-to)) / to_si(k));
 }
 
+double mixed_flow_conversion(RateConstant k, Time tau) {
+  const double k_tau = to_si(k) * to_si(tau);
+  if (!(k_tau > 0.0)) return 0.0;
+  // 1 - 1 / (1 + k tau) loses digits for small k tau; this form does not,
+  // and it tends to 1 without overflow for large k tau.
+  return k_tau / (1.0 + k_tau);
+}
+
 HistoryResult integrate_conversion(const KineticSet& kinetics, const std::function<Temperature(Time)>& temperature,
                                    Time duration) {
   namespace odeint = boost::numeric::odeint;

@@ -95,6 +95,12 @@ double isothermal_conversion(RateConstant k, Time t);
 // The time at constant k to go from conversion X_from to X_to (X_to < 1):
 //   t = ln((1 - X_from) / (1 - X_to)) / k ; zero when X_from >= X_to.
 Time time_between_conversions(RateConstant k, double from, double to);
+// A first-order conversion in an ideal stirred (mixed-flow) reactor of mean
+// residence time tau, from the mixed-flow design equation
+//   tau = X / (k (1 - X))  ->  X = k tau / (1 + k tau)
+// (Levenspiel, Chemical Reaction Engineering, 3rd ed., ch. 5, first-order
+// reaction in a mixed-flow reactor). k or tau not above zero gives 0.
+double mixed_flow_conversion(RateConstant k, Time tau);
 
 // Conversion and products along a temperature history, by integrating
 //   dm_P/dt = -sum_j k_j(T(t)) m_P,   dy_j/dt = k_j(T(t)) m_P

@@ -145,13 +145,16 @@ ShortcutDesign design_shortcut_column(const KValueModel& model, const Eigen::Vec
   // Fenske at total reflux, with the volatilities of the top and bottom
   // that the non-key distribution in turn sets.
   Eigen::VectorXd alpha = Eigen::VectorXd::Zero(n);
-  std::optional<Temperature> bottom_guess;
+  // Each Fenske pass starts its dew and bubble points from the last pass:
+  // the compositions move little between passes.
+  std::optional<Temperature> top_guess, bottom_guess;
   for (int iteration = 1;; ++iteration) {
     if (iteration > max_fenske_iterations)
       throw ConvergenceError("Fenske: the relative volatilities did not settle with the product compositions");
     const Eigen::VectorXd x_D = d / d.sum();
     const Eigen::VectorXd x_B = b / b.sum();
-    design.top_temperature = model.dew_temperature(x_D);
+    design.top_temperature = model.dew_point(x_D, top_guess);
+    top_guess = design.top_temperature;
     const Eigen::VectorXd K_top = top_stage_k_values(model, x_D, design.top_temperature);
     const StageEquilibrium bottom = model.bubble_point(x_B, bottom_guess);
     bottom_guess = bottom.temperature;

@@ -1,5 +1,7 @@
 #include "flowsheet/thermo/activity.hpp"
 
+#include <algorithm>
+#include <array>
 #include <cmath>
 #include <sstream>
 #include <stdexcept>
@@ -65,81 +67,113 @@ void warn_missing_water_pairs(const ComponentSet& components, const Eigen::Vecto
   }
 }
 
+// Room for tau and G of a liquid mixture of this many members on the stack;
+// larger mixtures take it from the heap.
+constexpr std::size_t members_on_stack = 24;
+
 }  // namespace
 
-Eigen::VectorXd activity_coefficients(const ComponentSet& components, const Eigen::VectorXd& x, Temperature T,
-                                      Warnings* warnings) {
+void activity_coefficients(const ComponentSet& components, const Eigen::VectorXd& x, double T_K,
+                           Eigen::VectorXd& gamma, Warnings* warnings) {
   const std::size_t n = components.size();
   if (static_cast<std::size_t>(x.size()) != n)
     throw std::invalid_argument("activity_coefficients: " + std::to_string(x.size()) + " mole fractions for " +
                                 std::to_string(n) + " components");
-  const double T_K = in_kelvin(T);
-  Eigen::VectorXd gamma = Eigen::VectorXd::Ones(static_cast<Index>(n));
+  gamma.setOnes(static_cast<Index>(n));
 
   // The liquid mixture: every component that can be in it as a fluid,
   // including those at zero mole fraction (their gamma is the value at
   // infinite dilution, which a dew point needs). Polymers and solids are
   // left out and their share is removed by renormalising.
-  std::vector<Index> members;
+  const NrtlIndex& index = components.nrtl_index();
+  const std::vector<std::size_t>& members = index.members;
   double total = 0.0;
-  for (std::size_t i = 0; i < n; ++i) {
-    if (!in_liquid_mixture(components[i])) continue;
+  for (std::size_t i : members) {
     const double xi = x[static_cast<Index>(i)];
     if (!(xi >= 0.0) || !std::isfinite(xi))
       throw std::invalid_argument("activity_coefficients: mole fraction of '" + components[i].id +
                                   "' is negative or not a number");
-    members.push_back(static_cast<Index>(i));
     total += xi;
   }
-  const Index m = static_cast<Index>(members.size());
-  if (m == 0 || !(total > 0.0)) return gamma;
+  const std::size_t m = members.size();
+  if (m == 0 || !(total > 0.0)) return;
 
-  Eigen::VectorXd xm(m);
-  for (Index a = 0; a < m; ++a) xm[a] = x[members[static_cast<std::size_t>(a)]] / total;
+  // Scratch: xm, D, S (m each), tau and G (m x m, column-major).
+  std::array<double, 3 * members_on_stack + 2 * members_on_stack * members_on_stack> on_stack;
+  std::vector<double> on_heap;
+  double* scratch = on_stack.data();
+  if (m > members_on_stack) {
+    on_heap.resize(3 * m + 2 * m * m);
+    scratch = on_heap.data();
+  }
+  double* xm = scratch;
+  double* D = xm + m;
+  double* S = D + m;
+  double* tau = S + m;
+  double* G = tau + m * m;
+  for (std::size_t a = 0; a < m; ++a) xm[a] = x[static_cast<Index>(members[a])] / total;
 
   // tau(i, j) and G(i, j) in the notation of Renon and Prausnitz (1968):
   // tau_ij = a_ij + b_ij / T, G_ij = exp(-alpha_ij tau_ij); pairs without
   // parameters have tau = 0, G = 1 (ideal).
-  Eigen::MatrixXd tau = Eigen::MatrixXd::Zero(m, m);
-  Eigen::MatrixXd G = Eigen::MatrixXd::Ones(m, m);
-  auto local = [&](const std::string& id) -> Index {
-    for (Index a = 0; a < m; ++a)
-      if (components[static_cast<std::size_t>(members[static_cast<std::size_t>(a)])].id == id) return a;
-    return -1;
-  };
-  bool any_pair = false;
-  for (const auto& pair : components.nrtl_pairs()) {
-    const Index i = local(pair.first);
-    const Index j = local(pair.second);
-    if (i < 0 || j < 0 || i == j) continue;
-    any_pair = true;
-    tau(i, j) = pair.a12 + pair.b12 / T_K;
-    tau(j, i) = pair.a21 + pair.b21 / T_K;
-    G(i, j) = std::exp(-pair.alpha * tau(i, j));
-    G(j, i) = std::exp(-pair.alpha * tau(j, i));
+  // Only the paired columns are read below (the others are ideal
+  // throughout), so only they are filled.
+  for (std::size_t j : index.paired) {
+    std::fill(tau + j * m, tau + (j + 1) * m, 0.0);
+    std::fill(G + j * m, G + (j + 1) * m, 1.0);
+  }
+  const auto& pairs = components.nrtl_pairs();
+  for (const NrtlIndex::Pair& p : index.pairs) {
+    const NrtlPair& pair = pairs[p.pair];
+    const std::size_t i = p.first;
+    const std::size_t j = p.second;
+    const double tau_ij = pair.a12 + pair.b12 / T_K;
+    const double tau_ji = pair.a21 + pair.b21 / T_K;
+    tau[i + j * m] = tau_ij;
+    tau[j + i * m] = tau_ji;
+    G[i + j * m] = std::exp(-pair.alpha * tau_ij);
+    G[j + i * m] = std::exp(-pair.alpha * tau_ji);
     if (warnings != nullptr && !pair.range.contains(T_K) && xm[i] > 0.0 && xm[j] > 0.0)
       warn_outside_range(pair, T_K, *warnings);
   }
   if (warnings != nullptr) warn_missing_water_pairs(components, x / total, *warnings);
-  if (!any_pair) return gamma;
+  if (index.pairs.empty()) return;
 
   // ln gamma_i = S_i / D_i + sum_j x_j G_ij / D_j (tau_ij - S_j / D_j)
   // with D_j = sum_k x_k G_kj and S_j = sum_k x_k tau_kj G_kj.
-  Eigen::VectorXd D(m), S(m);
-  for (Index j = 0; j < m; ++j) {
+  // A column j outside every pair has G_kj = 1 and tau_kj = 0: D_j is the
+  // plain sum of x and S_j is zero, and its term of every ln gamma_i is an
+  // exact zero, so only the paired columns are summed (the same sums, in
+  // the same order, as over all columns).
+  double plain_sum = 0.0;
+  for (std::size_t k = 0; k < m; ++k) plain_sum += xm[k];
+  for (std::size_t j = 0; j < m; ++j) {
+    D[j] = plain_sum;
+    S[j] = 0.0;
+  }
+  for (std::size_t j : index.paired) {
     double d = 0.0, s = 0.0;
-    for (Index k = 0; k < m; ++k) {
-      d += xm[k] * G(k, j);
-      s += xm[k] * tau(k, j) * G(k, j);
+    const double* G_j = G + j * m;
+    const double* tau_j = tau + j * m;
+    for (std::size_t k = 0; k < m; ++k) {
+      d += xm[k] * G_j[k];
+      s += xm[k] * tau_j[k] * G_j[k];
     }
     D[j] = d;
     S[j] = s;
   }
-  for (Index i = 0; i < m; ++i) {
+  for (std::size_t i = 0; i < m; ++i) {
     double ln_gamma = S[i] / D[i];
-    for (Index j = 0; j < m; ++j) ln_gamma += xm[j] * G(i, j) / D[j] * (tau(i, j) - S[j] / D[j]);
-    gamma[members[static_cast<std::size_t>(i)]] = std::exp(ln_gamma);
+    for (std::size_t j : index.paired)
+      ln_gamma += xm[j] * G[i + j * m] / D[j] * (tau[i + j * m] - S[j] / D[j]);
+    gamma[static_cast<Index>(members[i])] = std::exp(ln_gamma);
   }
+}
+
+Eigen::VectorXd activity_coefficients(const ComponentSet& components, const Eigen::VectorXd& x, Temperature T,
+                                      Warnings* warnings) {
+  Eigen::VectorXd gamma;
+  activity_coefficients(components, x, in_kelvin(T), gamma, warnings);
   return gamma;
 }
 

@@ -19,4 +19,9 @@ class Warnings;
 Eigen::VectorXd activity_coefficients(const ComponentSet& components, const Eigen::VectorXd& x, Temperature T,
                                       Warnings* warnings = nullptr);
 
+// The same into `gamma` (resized to the component set), for loops that call
+// it many times and keep their vectors.
+void activity_coefficients(const ComponentSet& components, const Eigen::VectorXd& x, double T_K,
+                           Eigen::VectorXd& gamma, Warnings* warnings = nullptr);
+
 }  // namespace unchain

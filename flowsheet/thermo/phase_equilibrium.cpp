@@ -111,8 +111,12 @@ DewState dew_state(const ComponentSet& components, const Eigen::VectorXd& y, dou
       return state;
     }
   }
+  // The vectors of the iteration are allocated once, here.
   Eigen::VectorXd ln_gamma = Eigen::VectorXd::Zero(static_cast<Index>(n));
+  Eigen::VectorXd gamma(static_cast<Index>(n));
+  Eigen::VectorXd next(static_cast<Index>(n));
   DewState state;
+  state.x.resize(static_cast<Index>(n));
   for (int iteration = 0; iteration < max_gamma_iterations; ++iteration) {
     double inverse_P = 0.0;
     for (std::size_t i = 0; i < n; ++i) {
@@ -120,14 +124,16 @@ DewState dew_state(const ComponentSet& components, const Eigen::VectorXd& y, dou
       if (psat[ii] > 0.0) inverse_P += y[ii] / (std::exp(ln_gamma[ii]) * psat[ii]);
     }
     state.pressure_Pa = 1.0 / inverse_P;
-    state.x = Eigen::VectorXd::Zero(static_cast<Index>(n));
+    state.x.setZero();
     for (std::size_t i = 0; i < n; ++i) {
       const auto ii = static_cast<Index>(i);
       if (psat[ii] > 0.0) state.x[ii] = y[ii] * state.pressure_Pa / (std::exp(ln_gamma[ii]) * psat[ii]);
     }
-    const Eigen::VectorXd next = activity_coefficients(components, state.x, kelvin(T_K), nullptr).array().log();
+    activity_coefficients(components, state.x, T_K, gamma, nullptr);
+    next = gamma.array().log();
     const double change = (next - ln_gamma).cwiseAbs().maxCoeff();
-    ln_gamma = iteration < undamped_iterations ? next : Eigen::VectorXd(0.5 * (next + ln_gamma));
+    if (iteration < undamped_iterations) ln_gamma = next;
+    else ln_gamma = 0.5 * (next + ln_gamma);
     if (change < ln_gamma_tolerance) {
       if (warnings != nullptr) {  // the converged state, once more, with the sink
         (void)activity_coefficients(components, state.x, kelvin(T_K), warnings);
@@ -204,10 +210,12 @@ FlashResult isothermal_flash(const ComponentSet& components, const Eigen::Vector
   const auto size = static_cast<Index>(n);
   const double T_K = in_kelvin(T);
   const double P_Pa = to_si(P);
-  const std::string what = "flash at " + temperature_text(T_K) + " and " + pressure_text(P_Pa);
-  require_positive_pressure(P_Pa, what);
+  // Written out only for a message: a flash at duty runs this flash many
+  // times, and formatting the numbers would cost more than the flash.
+  auto what = [&] { return "flash at " + temperature_text(T_K) + " and " + pressure_text(P_Pa); };
+  if (!(P_Pa > 0.0) || !std::isfinite(P_Pa)) require_positive_pressure(P_Pa, what());
   if (feed_kg.size() != size)
-    throw std::invalid_argument(what + ": " + std::to_string(feed_kg.size()) + " feed masses for " +
+    throw std::invalid_argument(what() + ": " + std::to_string(feed_kg.size()) + " feed masses for " +
                                 std::to_string(n) + " components");
 
   FlashResult result;
@@ -222,7 +230,7 @@ FlashResult isothermal_flash(const ComponentSet& components, const Eigen::Vector
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<Index>(i);
     if (!(feed_kg[ii] >= 0.0) || !std::isfinite(feed_kg[ii]))
-      throw std::invalid_argument(what + ": feed mass of '" + components[i].id + "' is negative or not a number");
+      throw std::invalid_argument(what() + ": feed mass of '" + components[i].id + "' is negative or not a number");
     if (vle::is_fluid(components[i])) moles[ii] = feed_kg[ii] / components[i].molar_mass;
   }
   const double total_moles = moles.sum();
@@ -235,6 +243,8 @@ FlashResult isothermal_flash(const ComponentSet& components, const Eigen::Vector
   Eigen::VectorXd K;
   double V = 0.0;
   Eigen::VectorXd x = z;
+  Eigen::VectorXd gamma(size);  // the iteration's vectors, allocated once
+  Eigen::VectorXd next(size);
   bool converged = false;
   for (int iteration = 1; iteration <= max_gamma_iterations && !converged; ++iteration) {
     result.iterations = iteration;
@@ -252,12 +262,14 @@ FlashResult isothermal_flash(const ComponentSet& components, const Eigen::Vector
       break;
     }
     x /= sum_x;
-    const Eigen::VectorXd next = activity_coefficients(components, x, T, nullptr).array().log();
+    activity_coefficients(components, x, T_K, gamma, nullptr);
+    next = gamma.array().log();
     const double change = (next - ln_gamma).cwiseAbs().maxCoeff();
-    ln_gamma = iteration <= undamped_iterations ? next : Eigen::VectorXd(0.5 * (next + ln_gamma));
+    if (iteration <= undamped_iterations) ln_gamma = next;
+    else ln_gamma = 0.5 * (next + ln_gamma);
     converged = change < ln_gamma_tolerance;
   }
-  if (!converged) throw ConvergenceError(what + ": activity coefficients did not converge");
+  if (!converged) throw ConvergenceError(what() + ": activity coefficients did not converge");
   if (warnings != nullptr) {
     if (x.sum() > 0.0) (void)activity_coefficients(components, x, T, warnings);
     (void)vle::k_values(components, ln_gamma.array().exp().matrix(), T_K, P_Pa, warnings);

@@ -33,7 +33,7 @@ def check(condition, what):
 def run(*args):
     """Runs unchain; returns (exit code, stdout + stderr), or (None, why) on a hang."""
     try:
-        done = subprocess.run([UNCHAIN, *args], capture_output=True, text=True, timeout=20)
+        done = subprocess.run([UNCHAIN, *args], capture_output=True, text=True, errors="replace", timeout=20)
     except subprocess.TimeoutExpired:
         return None, "timed out after 20 s"
     return done.returncode, done.stdout + done.stderr
@@ -56,7 +56,15 @@ CASES = [
      ["'blocks.warm.outlet_temperature': wrong dimension",
       "expected temperature (K), found mass (kg)"]),
     ("unknown_unit", "check", 2, (20, 25),
-     ["'blocks.warm.outlet_temperature': unknown unit \"degQ\""]),
+     ["'blocks.warm.outlet_temperature': unknown unit \"degQ\" (expected a unit symbol such as K, degC,",
+      "found \"degQ\")", "(did you mean \"degC\"?)"]),
+    # An alias inside the value its anchor names: a cycle, not deep nesting.
+    ("recursive_alias", "check", 2, (10, 5),
+     ["recursive YAML alias: the alias here refers to the anchored value (line 7)",
+      "(expected a tree, found a cycle)"]),
+    # Found by fuzzing: a byte that is not UTF-8 used to reach the JSON writer (exit 1).
+    ("not_utf8", "check", 2, (3, 14),
+     ["the file is not valid UTF-8 text (expected UTF-8, found the byte 0xE9)"]),
     ("missing_number", "check", 2, (9, 21),
      ["'feeds.cold_water.liquid.water': missing number in \"kg\""]),
     ("negative_amount", "check", 2, (9, 21),
@@ -118,7 +126,7 @@ def test_fixtures(workdir):
           % (sorted(on_disk - listed), sorted(listed - on_disk)))
     for name, command, code_expected, location, phrases in CASES:
         path = os.path.join(FIXTURES, name + ".yaml")
-        with open(path) as f:
+        with open(path, encoding="utf-8", errors="replace") as f:  # not_utf8 is not
             check(f.readline().startswith("# Bad input"), name + ": header comment says the mistake")
         if command == "check":
             code, output = run("check", path)
@@ -152,6 +160,15 @@ def test_generated(workdir):
         f.write(GOOD_CASE)
     code, output = run("check", good)
     check(code == 0, "the good case used below checks clean (exit %s: %s)" % (code, output))
+
+    # Text in UTF-8 beyond ASCII (two-, three- and four-byte forms, and a
+    # byte-order mark) is fine; only bytes that are not UTF-8 are refused.
+    accented = os.path.join(workdir, "accented.yaml")
+    with open(accented, "w", encoding="utf-8") as f:
+        f.write("\ufeff" + GOOD_CASE.replace('title: "Mix and heat (invented example)"',
+                                             'title: "Caf\u00e9 wash \u2014 45 \u00b0C \U0001F9EA (invented example)"'))
+    code, output = run("check", accented)
+    check(code == 0, "a UTF-8 title with accents and symbols checks clean (exit %s: %s)" % (code, output))
 
     # An output folder that cannot be written: one that does not exist under
     # /proc, and one whose parent is a regular file (tests run as root, so
@@ -199,6 +216,27 @@ def test_generated(workdir):
         check("%s: error: nesting deeper than 64 levels" % deep in output,
               label + ": message (%s)" % output)
         assert_json_untouched([deep], 2, label, workdir)
+
+    # A cycle given on the command line: refused like one in a file (it used
+    # to send the copy of the override into endless recursion).
+    code, output = run("check", good, "--set", "blocks.mix.inlets={feeds: &loop [*loop]}")
+    sane(code, output, "recursive alias in --set")
+    check(code == 2, "recursive alias in --set: exit %s, expected 2" % code)
+    check("command line: error: --set 'blocks.mix.inlets': the value is not a valid YAML list or mapping "
+          "(recursive YAML alias" in output, "recursive alias in --set: message (%s)" % output)
+
+    # Aliases that multiply: ten levels of ten references stand for 10^10
+    # values. Refused in a moment by a cap on the expanded size, never walked.
+    bomb = os.path.join(workdir, "alias_bomb.yaml")
+    with open(bomb, "w") as f:
+        f.write("level0: &l0 [x, x, x, x, x, x, x, x, x, x]\n")
+        for level in range(1, 11):
+            f.write("level%d: &l%d [%s]\n" % (level, level, ", ".join(["*l%d" % (level - 1)] * 10)))
+    code, output = run("check", bomb)
+    sane(code, output, "alias bomb")
+    check(code == 2, "alias bomb: exit %s, expected 2" % code)
+    check("%s:" % bomb in output and "error: the YAML aliases expand to more than 200000 values" in output,
+          "alias bomb: message (%s)" % output)
 
 
 with tempfile.TemporaryDirectory() as scratch:

@@ -103,11 +103,30 @@ def test_help():
     check("unchain components --json" in r.stdout, "components --help shows an example")
 
 
+def test_block_listing(source_dir):
+    """`unchain blocks` lists every registered type, and each has a section in the block reference."""
+    r = run("blocks", "--json")
+    check(r.returncode == 0, f"blocks --json exits 0 (got {r.returncode}; stderr {r.stderr!r})")
+    types = [b["type"] for b in json.loads(r.stdout)["block_types"]]
+    check(len(types) == 13, f"13 block types are registered (got {len(types)}: {types})")
+    check(all(b["summary"] for b in json.loads(r.stdout)["block_types"]), "every block type has a summary")
+    with open(f"{source_dir}/docs/block-reference.md", encoding="utf-8") as f:
+        reference = f.read()
+    for t in types:
+        if t in ("heater", "cooler"):
+            check("### `heater` and `cooler`" in reference, "the block reference has the heater and cooler")
+        else:
+            check(f"### `{t}`" in reference, f"the block reference has a section for {t}")
+    text = run("blocks")
+    check(text.returncode == 0 and "\n  pyrolysis " in text.stdout, "blocks lists pyrolysis in its text table")
+
+
 if __name__ == "__main__":
     UNCHAIN = sys.argv[1]
     test_text_listing()
     test_json()
     test_help()
+    test_block_listing(sys.argv[2])
     if failures:
         print(f"{len(failures)} check(s) failed")
         sys.exit(1)
