@@ -131,8 +131,6 @@ struct PreparedCase::State {
 
 namespace {
 
-std::vector<std::string> split_dotted(const std::string& path);
-
 // An override deep inside a price that only the shared price file gives
 // (prices.products.styrene.0.price, prices.solvents.acetone) needs the
 // file's section in the case first: the case's own `prices` replace the
@@ -141,7 +139,7 @@ std::vector<std::string> split_dotted(const std::string& path);
 void bring_in_shared_prices(YAML::Node& root, const YAML::Node& shared, const std::vector<Override>& overrides) {
   if (!shared.IsDefined() || !shared.IsMap()) return;
   for (const auto& o : overrides) {
-    const auto parts = split_dotted(o.path);
+    const auto parts = split_override_path(o.path);
     if (parts.size() < 3 || parts[0] != "prices") continue;
     YAML::Node here = child(root, "prices");
     if (!here.IsMap()) continue;
@@ -219,7 +217,7 @@ Evaluation evaluate_document(const YamlDocument& document, const units::BlockReg
 // pristine document does not have is removed.
 void restore_overridden(YAML::Node& root, const YAML::Node& pristine, const std::vector<Override>& overrides) {
   for (const auto& o : overrides) {
-    const auto parts = split_dotted(o.path);
+    const auto parts = split_override_path(o.path);
     const YAML::Node original_top = child(pristine, parts[0]);
     if (!original_top.IsDefined()) {
       if (child(root, parts[0]).IsDefined()) root.remove(parts[0]);
@@ -332,15 +330,6 @@ CaseFigures PreparedCase::evaluate(const std::vector<Override>& overrides) const
 
 namespace {
 
-std::vector<std::string> split_dotted(const std::string& path) {
-  std::vector<std::string> parts(1);
-  for (char ch : path) {
-    if (ch == '.') parts.emplace_back();
-    else parts.back() += ch;
-  }
-  return parts;
-}
-
 std::vector<std::string> keys_of(const YAML::Node& map) {
   std::vector<std::string> keys;
   for (const auto& kv : map)
@@ -386,7 +375,7 @@ std::optional<std::string> walk(YAML::Node node, const std::vector<std::string>&
 
 std::optional<std::string> missing_case_path(const YAML::Node& document, const std::string& case_file,
                                              const std::string& path) {
-  const auto parts = split_dotted(path);
+  const auto parts = split_override_path(path);
   auto missing = walk(document, parts, 0, path, "", "the document");
   if (!missing || parts.size() < 2 || parts[0] != "prices") return missing;
   // A price given only in the shared price file.

@@ -18,21 +18,6 @@ namespace {
 
 const char* const feed_phases[] = {"solid", "liquid", "vapour"};
 
-std::vector<std::string> split_dotted(std::string_view path) {
-  std::vector<std::string> parts;
-  std::string part;
-  for (char ch : path) {
-    if (ch == '.') {
-      parts.push_back(part);
-      part.clear();
-    } else {
-      part += ch;
-    }
-  }
-  parts.push_back(part);
-  return parts;
-}
-
 std::vector<std::string> map_keys(const YAML::Node& map) {
   std::vector<std::string> keys;
   if (!map.IsMap()) return keys;
@@ -51,7 +36,7 @@ PathLookup look_up(const YAML::Node& root, const std::string& path) {
   YAML::Node current;
   current.reset(root);
   std::string walked;
-  for (const std::string& key : split_dotted(path)) {
+  for (const std::string& key : split_override_path(path)) {
     const std::string here = walked.empty() ? std::string("the case") : "'" + walked + "'";
     if (key.empty()) return {{}, "empty part in the path (expected KEY.KEY...)"};
     YAML::Node next;

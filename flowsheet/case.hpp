@@ -80,6 +80,9 @@ struct Override {
 // Applies overrides to a parsed document. A path whose parent does not
 // exist is an InputError naming the path and the closest existing key.
 void apply_overrides(YAML::Node& root, const std::vector<Override>& overrides);
+// The parts of a dotted override path: "blocks.dryer.pressure" gives
+// {"blocks", "dryer", "pressure"}; empty parts are kept ("a..b" gives three).
+std::vector<std::string> split_override_path(std::string_view path);
 // Parses "PATH=VALUE"; throws InputError when there is no '='.
 Override parse_override(std::string_view text);
 

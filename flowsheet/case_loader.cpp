@@ -603,21 +603,6 @@ void CaseLoader::check_plan() {
 // Overrides come from the command line, not from the file.
 SourceLocation command_line() { return {"command line", 0, 0}; }
 
-std::vector<std::string> split_path(const std::string& path) {
-  std::vector<std::string> parts;
-  std::string part;
-  for (char ch : path) {
-    if (ch == '.') {
-      parts.push_back(part);
-      part.clear();
-    } else {
-      part += ch;
-    }
-  }
-  parts.push_back(part);
-  return parts;
-}
-
 std::optional<std::size_t> list_index(const std::string& text) {
   if (text.empty() || text.size() > 9 ||
       !std::all_of(text.begin(), text.end(), [](char ch) { return std::isdigit(static_cast<unsigned char>(ch)); }))
@@ -670,7 +655,7 @@ YAML::Node override_value(const Override& o) {
 }
 
 void apply_override(YAML::Node& root, const Override& o) {
-  const auto parts = split_path(o.path);
+  const auto parts = split_override_path(o.path);
   for (const auto& p : parts)
     if (p.empty()) throw InputError(command_line(), "--set '" + o.path + "': empty part in the path (expected KEY.KEY...)");
   YAML::Node current;
@@ -761,6 +746,15 @@ Case load_case_file(const std::string& path, const BlockCatalogue& catalogue, co
   YamlDocument document = load_yaml_file(path);
   apply_overrides(document.root, overrides);
   return load_case(document, catalogue);
+}
+
+std::vector<std::string> split_override_path(std::string_view path) {
+  std::vector<std::string> parts(1);
+  for (char ch : path) {
+    if (ch == '.') parts.emplace_back();
+    else parts.back() += ch;
+  }
+  return parts;
 }
 
 }  // namespace unchain
