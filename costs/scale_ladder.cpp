@@ -74,10 +74,6 @@ std::string trimmed(const std::string& text) {
 // Shortest text that reads back as the same double.
 std::string number_text(double value) { return fmt::format("{}", value); }
 
-std::string feed_amount_path(const std::string& feed, const char* phase, const std::string& component) {
-  return "feeds." + feed + "." + phase + "." + component;
-}
-
 // Overrides for every amount of a feed-shaped mapping (a feed or an initial estimate).
 void scale_amounts(const YAML::Node& stream, const std::string& prefix, const std::string& case_file,
                    double factor, std::vector<Override>& out) {

@@ -4,6 +4,7 @@
 #include <charconv>
 #include <cctype>
 #include <cmath>
+#include <cstdio>
 #include <cstdlib>
 #include <optional>
 #include <string>
@@ -253,11 +254,14 @@ class UnitExpressionParser {
   }
 };
 
+// Shortest form: "2", "0.5", "-1.5"; an exponent too large for an int
+// (only a nonsense unit has one) in scientific notation rather than through
+// an out-of-range conversion.
 std::string format_exponent(double e) {
-  if (e == std::floor(e)) return std::to_string(static_cast<int>(e));
-  std::string s = std::to_string(e);
-  while (!s.empty() && s.back() == '0') s.pop_back();
-  return s;
+  if (e == std::floor(e) && std::abs(e) < 1e9) return std::to_string(static_cast<long long>(e));
+  char buffer[32];
+  std::snprintf(buffer, sizeof buffer, "%.6g", e);
+  return buffer;
 }
 
 }  // namespace

@@ -260,10 +260,28 @@ MappingReader::MappingReader(YAML::Node node, std::string file, std::string path
     return;
   }
   valid_ = true;
+  entries_.reserve(node_.size());
+  for (const auto& item : node_)
+    if (item.first.IsScalar()) entries_.emplace_back(item.first.Scalar(), item.second);
+}
+
+const YAML::Node* MappingReader::find_entry(std::string_view key) const {
+  for (const auto& [name, value] : entries_)
+    if (name == key) return &value;
+  return nullptr;
+}
+
+YAML::Node MappingReader::value_of(std::string_view key) const {
+  if (const YAML::Node* value = find_entry(key)) return *value;
+  // A valid node of undefined type, as yaml-cpp's non-const lookup gives for
+  // an absent key, but detached: reading a case never adds keys to it.
+  return YAML::Node(YAML::NodeType::Undefined);
 }
 
 bool MappingReader::has(std::string_view key) const {
-  return valid_ && node_[std::string(key)].IsDefined() && !node_[std::string(key)].IsNull();
+  if (!valid_) return false;
+  const YAML::Node* value = find_entry(key);
+  return value != nullptr && value->IsDefined() && !value->IsNull();
 }
 
 SourceLocation MappingReader::location() const { return location_of(node_, file_); }
@@ -285,7 +303,7 @@ void MappingReader::accept(std::string_view key) { known_.insert(std::string(key
 YAML::Node MappingReader::raw(std::string_view key) {
   accept(key);
   if (!valid_) return YAML::Node();
-  return node_[std::string(key)];
+  return value_of(key);
 }
 
 void MappingReader::error(std::string_view key, const std::string& message) const {
@@ -299,7 +317,7 @@ void MappingReader::warning(std::string_view key, const std::string& message) co
 std::optional<std::string> MappingReader::optional_text(std::string_view key) {
   accept(key);
   if (!has(key)) return std::nullopt;
-  const YAML::Node n = node_[std::string(key)];
+  const YAML::Node n = value_of(key);
   if (!n.IsScalar()) {
     diagnostics_->error(location_of(n, file_), "'" + key_path(key) + "' must be a single value (expected text)");
     return std::nullopt;
@@ -323,7 +341,7 @@ std::string MappingReader::text(std::string_view key, std::string fallback) {
 std::optional<double> MappingReader::optional_number(std::string_view key) {
   accept(key);
   if (!has(key)) return std::nullopt;
-  auto p = detail::parse_node(node_[std::string(key)], file_, key_path(key), *diagnostics_);
+  auto p = detail::parse_node(value_of(key), file_, key_path(key), *diagnostics_);
   if (!p) return std::nullopt;
   if (!p->dimension.is_dimensionless()) {
     diagnostics_->error(location_of_key(key), "'" + key_path(key) + "': wrong dimension (expected a plain number, found " +
@@ -362,7 +380,7 @@ double MappingReader::number_in(std::string_view key, double fallback, double lo
 std::optional<bool> MappingReader::optional_flag(std::string_view key) {
   accept(key);
   if (!has(key)) return std::nullopt;
-  const YAML::Node n = node_[std::string(key)];
+  const YAML::Node n = value_of(key);
   const std::string s = n.IsScalar() ? n.Scalar() : std::string();
   if (s == "true" || s == "yes" || s == "on") return true;
   if (s == "false" || s == "no" || s == "off") return false;
@@ -375,7 +393,7 @@ bool MappingReader::flag(std::string_view key, bool fallback) { return optional_
 std::optional<MappingReader> MappingReader::optional_mapping(std::string_view key) {
   accept(key);
   if (!has(key)) return std::nullopt;
-  MappingReader nested(node_[std::string(key)], file_, key_path(key), *diagnostics_, currency_);
+  MappingReader nested(value_of(key), file_, key_path(key), *diagnostics_, currency_);
   if (!nested.is_valid()) return std::nullopt;
   return nested;
 }

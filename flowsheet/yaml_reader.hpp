@@ -104,6 +104,16 @@ class MappingReader {
   std::string currency_;
   std::set<std::string, std::less<>> known_;
   bool valid_ = false;
+  // The mapping's scalar keys and their values, in file order. yaml-cpp
+  // finds a key by converting every key of the map to a string, which made
+  // key lookups most of the cost of loading a case; blocks look up many
+  // keys, most of them absent.
+  std::vector<std::pair<std::string, YAML::Node>> entries_;
+
+  // The value of a key present in the mapping, or nullptr.
+  [[nodiscard]] const YAML::Node* find_entry(std::string_view key) const;
+  // The value of a key, or an undefined node when it is absent.
+  [[nodiscard]] YAML::Node value_of(std::string_view key) const;
 
   std::string key_path(std::string_view key) const;
   void report_conversion_error(std::string_view key, const UnitError& e) const;
@@ -143,7 +153,7 @@ std::optional<Q> MappingReader::optional_quantity(std::string_view key) {
     return std::nullopt;
   }
   accept(key);
-  return read_quantity_node<Q>(node_[std::string(key)], file_, key_path(key), *diagnostics_, currency_);
+  return read_quantity_node<Q>(value_of(key), file_, key_path(key), *diagnostics_, currency_);
 }
 
 template <class Q>

@@ -65,6 +65,10 @@ CASES = [
     # Found by fuzzing: a byte that is not UTF-8 used to reach the JSON writer (exit 1).
     ("not_utf8", "check", 2, (3, 14),
      ["the file is not valid UTF-8 text (expected UTF-8, found the byte 0xE9)"]),
+    # Found by fuzzing: an exponent too large for an int was converted to one
+    # (undefined behaviour) while the dimension was described.
+    ("huge_unit_exponent", "check", 2, (9, 21),
+     ["'feeds.cold_water.liquid.water': wrong dimension (expected mass (kg), found kg^3.33333e+43"]),
     ("missing_number", "check", 2, (9, 21),
      ["'feeds.cold_water.liquid.water': missing number in \"kg\""]),
     ("negative_amount", "check", 2, (9, 21),
