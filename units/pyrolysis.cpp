@@ -338,33 +338,11 @@ std::string key_path(const MappingReader& parameters, std::string_view key) {
 
 // The vessel parameters are those of the shared vessel model; the reactor
 // volume stands for the vessel volume (its outer area) unless the case
-// gives vessel_volume or outer_area. The vessel reader works on a view of
-// the block mapping that shares its nodes (so messages keep their place in
-// the file); messages about the view itself are placed at the block.
-VesselDesign read_reactor_vessel(MappingReader& parameters, const YAML::Node& volume_node, bool volume_ok) {
-  static const char* const keys[] = {"heater_power",  "vessel_volume",       "outer_area",
-                                     "vessel_heat_capacity", "vessel_mass", "vessel_material",
-                                     "insulation",    "insulation_thickness", "heat_loss_coefficient"};
-  YAML::Node view(YAML::NodeType::Map);
-  const YAML::Node& block = parameters.node();
-  for (const char* key : keys)
-    if (parameters.has(key)) view[key] = block[key];
-  if (!parameters.has("vessel_volume") && !parameters.has("outer_area")) {
-    // A wrong reactor_volume is reported already; a stand-in keeps the vessel
-    // reader from reporting it again under another name.
-    if (volume_ok) view["vessel_volume"] = volume_node;
-    else view["vessel_volume"] = "1 m3";
-  }
-  DiagnosticList local;
-  MappingReader reader(view, parameters.file(), parameters.path(), local, parameters.currency());
-  VesselDesign design = read_vessel_design(reader);
-  for (const Diagnostic& d : local.all()) {
-    const SourceLocation where = d.where.line > 0 ? d.where : parameters.location();
-    if (d.severity == Severity::error) parameters.diagnostics().error(where, d.message);
-    else parameters.diagnostics().warning(where, d.message);
-  }
-  for (const char* key : keys) parameters.accept(key);
-  return design;
+// gives vessel_volume or outer_area. A wrong reactor_volume is reported
+// already; a stand-in of 1 m3 keeps the vessel reader from reporting it
+// again under another name.
+VesselDesign read_reactor_vessel(MappingReader& parameters, std::optional<Volume> reactor_volume) {
+  return read_vessel_design(parameters, reactor_volume ? *reactor_volume : from_si<Volume>(1.0));
 }
 
 std::optional<std::size_t> choose_polymer(MappingReader& parameters, const ComponentSet& cs) {
@@ -682,7 +660,7 @@ std::unique_ptr<BlockModel> make_pyrolysis(MappingReader& p, const BlockSetup& s
     }
     (std::string_view(key) == "cool_down_time" ? s.cool_down_time : s.turnaround_time) = t;
   }
-  s.vessel = read_reactor_vessel(p, volume_node, volume_ok);
+  s.vessel = read_reactor_vessel(p, volume_ok ? std::optional<Volume>(s.reactor_volume) : std::nullopt);
 
   p.finish();
   // With errors the case is refused before any solve; the flag guards

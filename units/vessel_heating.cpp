@@ -121,7 +121,7 @@ Area cylinder_outer_area(Volume volume) {
   return from_si<Area>(2.0 * std::numbers::pi * D * D);
 }
 
-VesselDesign read_vessel_design(MappingReader& parameters) {
+VesselDesign read_vessel_design(MappingReader& parameters, std::optional<Volume> volume_when_not_given) {
   VesselDesign design;
   if (!parameters.has("heater_power")) {
     parameters.accept("heater_power");
@@ -131,11 +131,13 @@ VesselDesign read_vessel_design(MappingReader& parameters) {
     design.heater_power = *p;
   }
 
-  const auto volume = positive<Volume>(parameters, "vessel_volume");
+  auto volume = positive<Volume>(parameters, "vessel_volume");
   const auto area = positive<Area>(parameters, "outer_area");
   const bool has_volume = parameters.has("vessel_volume");
   const bool has_area = parameters.has("outer_area");
-  if (has_volume && has_area) {
+  if (!has_volume && !has_area && volume_when_not_given) {
+    volume = volume_when_not_given;
+  } else if (has_volume && has_area) {
     parameters.error("outer_area", "give either '" + key_path(parameters, "vessel_volume") + "' or '" +
                                        key_path(parameters, "outer_area") + "', not both");
   } else if (!has_volume && !has_area) {

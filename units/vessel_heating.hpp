@@ -79,8 +79,11 @@ struct VesselDesign {
 //   insulation_thickness           mineral wool only, default 50 mm
 //   heat_loss_coefficient          U given outright (instead of insulation)
 // Problems go to the reader's diagnostics; the returned design then holds
-// zeros where values were wrong.
-VesselDesign read_vessel_design(MappingReader& parameters);
+// zeros where values were wrong. A block whose own size stands for the
+// vessel (a reactor's volume) passes it as volume_when_not_given: used when
+// neither vessel_volume nor outer_area is written.
+VesselDesign read_vessel_design(MappingReader& parameters,
+                                std::optional<Volume> volume_when_not_given = std::nullopt);
 
 // What is heated and how long it is held.
 struct VesselCharge {
