@@ -164,6 +164,28 @@ TEST_CASE("pyrolysis kinetics: conversion at constant temperature follows X = 1 
   CHECK(to_si(units::time_between_conversions(from_si<RateConstant>(0.02), 0.995, 0.99)) == 0.0);
 }
 
+TEST_CASE("pyrolysis kinetics: very fast kinetics over a heat-up integrate quickly and convert fully") {
+  // Found by fuzzing: an activation energy of 92 kJ/mol with A = 5e12 1/s
+  // gives k near 6e5 1/s at 420 degC; integrating x' = -k x with an explicit
+  // stepper took minutes. Two channels split 25:1 at every temperature
+  // (same activation energy), so their yields must stand 25:1.
+  units::KineticSet kinetics;
+  kinetics.channels.push_back({"styrene", from_si<RateConstant>(5e12), from_si<MolarEnergy>(92e3)});
+  kinetics.channels.push_back({"char", from_si<RateConstant>(2e11), from_si<MolarEnergy>(92e3)});
+  const auto C = from_si<units::HeatCapacity>(1500.0);
+  const auto power = from_si<Power>(450.0);
+  const auto UA = from_si<ThermalConductance>(0.3);
+  const Temperature T0 = celsius(20.0), Ta = celsius(20.0), Tset = celsius(420.0);
+  const Time t_end = units::lumped_heat_up_time(C, power, UA, T0, Tset, Ta);
+  auto history = [&](Time t) { return units::lumped_temperature_at(C, power, UA, T0, Ta, t); };
+  const auto result = units::integrate_conversion(kinetics, history, t_end);
+  // Source: X = 1 - exp(-integral k dt); the integral here is above 1e6, so
+  // X is 1 to double precision, and the yields sum to X.
+  CHECK(result.conversion == doctest::Approx(1.0).epsilon(1e-12));
+  CHECK(result.product_yields[0] + result.product_yields[1] == doctest::Approx(1.0).epsilon(1e-9));
+  CHECK(result.product_yields[0] / result.product_yields[1] == doctest::Approx(25.0).epsilon(1e-9));
+}
+
 TEST_CASE("pyrolysis kinetics: conversion over a heat-up history matches an independent quadrature") {
   const units::KineticSet& kinetics = units::default_polystyrene_kinetics();
   // A lumped heat-up (vessel model) from 25 to 430 degC, invented figures,
