@@ -23,8 +23,6 @@ constexpr double noticeable_mole_fraction = 1e-3;
 // forms a second liquid phase with water.
 constexpr double poorly_miscible_mass_fraction = 0.01;
 
-bool in_liquid_mixture(const Component& c) { return !c.is_condensed_only(); }
-
 bool is_water(const Component& c) {
   if (c.formula.size() != 2) return false;
   auto h = c.formula.find("H");
