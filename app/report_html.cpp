@@ -123,8 +123,6 @@ std::pair<double, std::string> display_quantity(double quantity, const std::stri
 
 std::string money(double v) { return fixed(v, 2); }
 
-std::string optional_sig(const std::optional<double>& v) { return v ? sig(*v) : std::string("n/a"); }
-
 std::string td_num(const std::string& content) { return "<td class=\"num\">" + content + "</td>"; }
 
 struct Page {
