@@ -4,6 +4,8 @@
 
 #include <stdexcept>
 
+#include "costs/closure_check.hpp"
+
 namespace unchain::app {
 
 inline constexpr int exit_success = 0;
@@ -17,12 +19,10 @@ inline constexpr int exit_input_error = 2;
 // balance that does not close within the tolerances below.
 inline constexpr int exit_not_converged = 3;
 
-// Relative closure above which a solved case counts as not closing. A
-// shipped case closes mass to 1e-9 and energy to 1e-6; these limits leave a
-// margin for user cases with long recycle loops while still catching a
-// block that loses material or heat.
-inline constexpr double mass_closure_limit = 1e-6;
-inline constexpr double energy_closure_limit = 1e-4;
+// The closure limits behind exit code 3 are those of
+// costs/closure_check.hpp, shared with every study.
+using costs::energy_closure_limit;
+using costs::mass_closure_limit;
 
 // A wrong command-line argument found after parsing (an unknown component,
 // a value with a bad unit): exit code 2. The message names the option.

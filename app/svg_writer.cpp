@@ -170,8 +170,9 @@ void Writer::title(std::string_view content) { body_ += fmt::format("<title>{}</
 
 void Writer::raw(std::string_view markup) { body_ += markup; }
 
-void Writer::x_axis(const LinearScale& scale, const std::vector<double>& ticks, double y, std::string_view label,
-                    std::optional<double> grid_top) {
+template <class Scale>
+void Writer::horizontal_axis(const Scale& scale, const std::vector<double>& ticks, double y, std::string_view label,
+                             std::optional<double> grid_top) {
   line(scale.range_low, y, scale.range_high, y, "axis");
   for (const double t : ticks) {
     const double x = scale(t);
@@ -182,16 +183,14 @@ void Writer::x_axis(const LinearScale& scale, const std::vector<double>& ticks, 
   if (!label.empty()) text((scale.range_low + scale.range_high) / 2, y + 34, label, Anchor::middle, "axis-label");
 }
 
+void Writer::x_axis(const LinearScale& scale, const std::vector<double>& ticks, double y, std::string_view label,
+                    std::optional<double> grid_top) {
+  horizontal_axis(scale, ticks, y, label, grid_top);
+}
+
 void Writer::x_axis_log(const LogScale& scale, const std::vector<double>& ticks, double y, std::string_view label,
                         std::optional<double> grid_top) {
-  line(scale.range_low, y, scale.range_high, y, "axis");
-  for (const double t : ticks) {
-    const double x = scale(t);
-    if (grid_top) line(x, *grid_top, x, y, "grid");
-    line(x, y, x, y + 5, "axis");
-    text(x, y + 17, tick_label(t), Anchor::middle, "tick");
-  }
-  if (!label.empty()) text((scale.range_low + scale.range_high) / 2, y + 34, label, Anchor::middle, "axis-label");
+  horizontal_axis(scale, ticks, y, label, grid_top);
 }
 
 void Writer::y_axis(const LinearScale& scale, const std::vector<double>& ticks, double x, std::string_view label,

@@ -87,6 +87,11 @@ class Writer {
   [[nodiscard]] std::string finish() const;  // the whole <svg> element
 
  private:
+  // The body of both horizontal axes; instantiated in svg_writer.cpp only.
+  template <class Scale>
+  void horizontal_axis(const Scale& scale, const std::vector<double>& ticks, double y, std::string_view label,
+                       std::optional<double> grid_top);
+
   double width_, height_;
   std::string key_, title_;
   std::string body_;

@@ -4,7 +4,6 @@
 #include <cmath>
 #include <sstream>
 
-#include "costs/case_study.hpp"
 #include "costs/heating_value.hpp"
 #include "flowsheet/diagnostics.hpp"
 
@@ -330,8 +329,6 @@ CashFlowBasis cash_flow_basis(const Case& c, const CostReport& report, const Cas
   return b;
 }
 
-// Declared in case_study.hpp, the one place that keeps a shared price file
-// between evaluations.
 CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const SharedPriceFile* shared_prices) {
   DiagnosticList diagnostics;
   const PriceBook prices = read_price_book(c.document, c.file, c.currency, diagnostics, shared_prices);

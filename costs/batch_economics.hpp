@@ -106,5 +106,9 @@ CashFlowBasis cash_flow_basis(const Case& c, const CostReport& report, const Cas
 // evaluates them (the cash flow only when there is an economics section).
 // Input errors are thrown together as InputError.
 CostReport evaluate_case_costs(const Case& c, const SolveResult& result);
+// The same with the file named by prices.file already read (a study reads
+// it once for all its evaluations): the same report, without parsing the
+// file again. A null pointer reads the file as above.
+CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const SharedPriceFile* shared_prices);
 
 }  // namespace unchain::costs

@@ -44,11 +44,6 @@ struct CaseFigures {
 
 CaseFigures key_figures(const Case& c, const CostReport& report);
 
-// evaluate_case_costs (batch_economics.hpp) with the shared price file
-// already read: the same report, without parsing the file again. Defined in
-// batch_economics.cpp beside the other one.
-CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const SharedPriceFile* shared_prices);
-
 // Everything one evaluation produced, for callers that want more than the
 // key figures (the report, the scale ladder).
 struct Evaluation {

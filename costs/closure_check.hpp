@@ -13,7 +13,7 @@ namespace unchain::costs {
 // Relative closure above which a solved case counts as not closing. A
 // shipped case closes mass to 1e-9 and energy to 1e-6; these limits leave a
 // margin for user cases with long recycle loops while still catching a
-// block that loses material or heat. (The same values as app/exit_codes.hpp.)
+// block that loses material or heat.
 inline constexpr double mass_closure_limit = 1e-6;
 inline constexpr double energy_closure_limit = 1e-4;
 
