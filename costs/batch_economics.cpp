@@ -329,14 +329,22 @@ CashFlowBasis cash_flow_basis(const Case& c, const CostReport& report, const Cas
   return b;
 }
 
-CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const SharedPriceFile* shared_prices) {
+CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const SharedPriceFile* shared_prices,
+                               std::shared_ptr<const CostSettings>& settings) {
   DiagnosticList diagnostics;
   const PriceBook prices = read_price_book(c.document, c.file, c.currency, diagnostics, shared_prices);
-  const Accounting accounting = read_accounting(c, diagnostics);
-  const CapitalSettings capital = read_capital_settings(c, diagnostics);
-  const CashFlowSettings economics = read_cash_flow_settings(c, diagnostics);
+  if (!settings) {
+    auto read = std::make_shared<CostSettings>();
+    read->accounting = read_accounting(c, diagnostics);
+    read->capital = read_capital_settings(c, diagnostics);
+    read->economics = read_cash_flow_settings(c, diagnostics);
+    diagnostics.throw_if_errors();
+    settings = std::move(read);
+  }
   diagnostics.throw_if_errors();
-  CostReport report = evaluate_costs(c, result, prices, accounting, capital);
+  const CapitalSettings& capital = settings->capital;
+  const CashFlowSettings& economics = settings->economics;
+  CostReport report = evaluate_costs(c, result, prices, settings->accounting, capital);
   if (economics.present) {
     const CashFlowBasis basis = cash_flow_basis(c, report, economics, capital);
     if (basis.inputs) {
@@ -349,6 +357,11 @@ CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const S
     }
   }
   return report;
+}
+
+CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const SharedPriceFile* shared_prices) {
+  std::shared_ptr<const CostSettings> settings;
+  return evaluate_case_costs(c, result, shared_prices, settings);
 }
 
 CostReport evaluate_case_costs(const Case& c, const SolveResult& result) {

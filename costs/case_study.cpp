@@ -3,9 +3,12 @@
 // Thread safety: the parsed document is shared read-only by every
 // evaluation. yaml-cpp nodes are not safe to read from several threads at
 // once (reading a sequence's size updates a cached count inside the node),
-// so each evaluation takes its own deep copy (YAML::Clone) under a mutex
-// owned by this PreparedCase, and from then on works on nothing shared but
-// the immutable block registry and component library.
+// so each evaluation works on a deep copy (YAML::Clone) of its own. The
+// shared document is read only to make such a copy, under a mutex owned by
+// this PreparedCase: evaluate() does so once per copy in its pool (about
+// once per thread), evaluate_full() every time. From then on an evaluation
+// works on nothing shared but the immutable block registry and component
+// library, and the cost settings read once (under their own mutex).
 
 #include "costs/case_study.hpp"
 
@@ -101,9 +104,16 @@ CaseFigures key_figures(const Case& c, const CostReport& r) {
 
 namespace {
 
+// A working copy of the case and, beside it, this copy's own clones of the
+// case as read and of the shared price file's prices: restoring the copy
+// after a use and making it afresh read only these, so the evaluations on
+// different threads share no node and take no lock for it.
 struct ReusableDocument {
-  YAML::Node root;  // a null node until cloned
-  bool cloned = false;
+  YAML::Node pristine;       // null handles until cloned (assignment into one binds)
+  YAML::Node shared_prices;
+  YAML::Node root;
+  bool have_pristine = false;
+  bool have_root = false;
   int uses = 0;
 };
 
@@ -127,6 +137,12 @@ struct PreparedCase::State {
   // Copies of `document` that evaluate() hands out one at a time and takes
   // back with the overridden sections put back (see DocumentLease).
   mutable DocumentPool pool;
+  // The cost settings (accounting, capital, economics) of the case with
+  // the base overrides: read by the first evaluation whose overrides leave
+  // them alone (leaves_cost_settings_alone), reused by the later ones.
+  mutable std::mutex settings_mutex;
+  mutable std::shared_ptr<const CostSettings> cost_settings;
+  bool base_leaves_cost_settings_alone = false;
 };
 
 namespace {
@@ -158,6 +174,23 @@ void bring_in_shared_prices(YAML::Node& root, const YAML::Node& shared, const st
   }
 }
 
+// True when no override can change what the cost settings are read from:
+// each one sets a price (prices are read on every evaluation) or a value
+// inside a block or a stream (three parts or more, so no block, stream or
+// component is added, removed or renamed, which the settings' checks see).
+// Anything else (the capital, accounting or economics sections, the case's
+// currency, a whole block) has the settings read again.
+bool leaves_cost_settings_alone(const std::vector<Override>& overrides) {
+  for (const auto& o : overrides) {
+    const auto parts = split_override_path(o.path);
+    if (parts.empty()) return false;
+    if (parts[0] == "prices") continue;
+    if ((parts[0] == "blocks" || parts[0] == "streams") && parts.size() >= 3) continue;
+    return false;
+  }
+  return true;
+}
+
 }  // namespace
 
 PreparedCase::PreparedCase(const std::string& path, std::vector<Override> base_overrides) : path_(path) {
@@ -184,6 +217,7 @@ PreparedCase::PreparedCase(const std::string& path, std::vector<Override> base_o
   apply_overrides(probe, state->base_overrides);
   const YAML::Node currency = child(child(probe, "case"), "currency");
   state->price_file = read_shared_price_file(probe, path, currency.IsScalar() ? currency.Scalar() : "USD");
+  state->base_leaves_cost_settings_alone = leaves_cost_settings_alone(state->base_overrides);
   state_ = std::move(state);
 }
 
@@ -191,9 +225,17 @@ const YAML::Node& PreparedCase::document() const { return state_->document.root;
 
 namespace {
 
+// Where evaluate_document takes the cost settings from: the case itself
+// (a null cache), or a cache shared by the evaluations of one study.
+struct SettingsCache {
+  std::mutex* mutex = nullptr;
+  std::shared_ptr<const CostSettings>* settings = nullptr;
+};
+
 // Load, solve, check and cost a document with its overrides applied.
 Evaluation evaluate_document(const YamlDocument& document, const units::BlockRegistry& catalogue,
-                             const SharedPriceFile* price_file, const std::string& path) {
+                             const SharedPriceFile* price_file, const std::string& path,
+                             SettingsCache cache = {}) {
   auto loaded = std::make_shared<Case>(load_case(document, catalogue));
   Evaluation e;
   e.result = solve(*loaded);
@@ -204,7 +246,21 @@ Evaluation evaluate_document(const YamlDocument& document, const units::BlockReg
     if (problems.size() > 1) text += " (and " + std::to_string(problems.size() - 1) + " more)";
     throw ConvergenceError(text);
   }
-  e.report = evaluate_case_costs(*loaded, e.result, price_file);
+  if (cache.settings != nullptr) {
+    std::shared_ptr<const CostSettings> settings;
+    {
+      std::lock_guard<std::mutex> lock(*cache.mutex);
+      settings = *cache.settings;
+    }
+    const bool first = settings == nullptr;
+    e.report = evaluate_case_costs(*loaded, e.result, price_file, settings);
+    if (first) {
+      std::lock_guard<std::mutex> lock(*cache.mutex);
+      if (*cache.settings == nullptr) *cache.settings = settings;
+    }
+  } else {
+    e.report = evaluate_case_costs(*loaded, e.result, price_file);
+  }
   e.figures = key_figures(*loaded, e.report);
   e.loaded = std::move(loaded);
   return e;
@@ -254,17 +310,17 @@ namespace {
 
 // A copy of the document for one evaluate(): taken from the pool (or
 // cloned when the pool is empty) and, once the evaluation is over, given
-// back with the overridden sections restored from the pristine document,
-// so that a sample clones a few small sections instead of the whole case.
-// Each assignment into a yaml-cpp document keeps the replaced nodes alive
-// until the document goes, so a copy is dropped after some uses.
+// back with the overridden sections restored from the copy's own pristine
+// clone, so that a sample clones a few small sections instead of the whole
+// case. Each assignment into a yaml-cpp document keeps the replaced nodes
+// alive until the document goes, so the working copy is made afresh (from
+// the same private clone) after some uses.
 class DocumentLease {
  public:
   DocumentLease(DocumentPool& pool, std::mutex& clone_mutex, const YAML::Node& pristine,
                 const YAML::Node& shared_prices, const std::vector<Override>& base_overrides,
                 const std::vector<Override>& overrides)
-      : pool_(pool), clone_mutex_(clone_mutex), pristine_(pristine), base_overrides_(base_overrides),
-        overrides_(overrides) {
+      : pool_(pool), base_overrides_(base_overrides), overrides_(overrides) {
     {
       // At most as many copies as evaluations ever ran at once.
       std::lock_guard<std::mutex> lock(pool_.mutex);
@@ -275,24 +331,35 @@ class DocumentLease {
         held_ = std::make_unique<ReusableDocument>();
       }
     }
-    std::lock_guard<std::mutex> lock(clone_mutex_);
-    if (!held_->cloned) {
-      held_->root = YAML::Clone(pristine_);  // into a null handle: binds, writes nothing through
-      held_->cloned = true;
+    if (!held_->have_pristine) {  // once per copy: the only reads of the shared nodes
+      std::lock_guard<std::mutex> lock(clone_mutex);
+      held_->pristine = YAML::Clone(pristine);
+      if (shared_prices.IsDefined() && !shared_prices.IsNull()) held_->shared_prices = YAML::Clone(shared_prices);
+      held_->have_pristine = true;
     }
-    bring_in_shared_prices(held_->root, shared_prices, base_overrides_);
-    bring_in_shared_prices(held_->root, shared_prices, overrides_);
+    if (!held_->have_root) {
+      held_->root = YAML::Clone(held_->pristine);
+      held_->have_root = true;
+    }
+    bring_in_shared_prices(held_->root, held_->shared_prices, base_overrides_);
+    bring_in_shared_prices(held_->root, held_->shared_prices, overrides_);
   }
   DocumentLease(const DocumentLease&) = delete;
   DocumentLease& operator=(const DocumentLease&) = delete;
   ~DocumentLease() {
     constexpr int uses_before_fresh_copy = 16;
-    if (++held_->uses >= uses_before_fresh_copy) return;
     try {
-      {
-        std::lock_guard<std::mutex> lock(clone_mutex_);
-        restore_overridden(held_->root, pristine_, overrides_);
-        restore_overridden(held_->root, pristine_, base_overrides_);
+      if (++held_->uses >= uses_before_fresh_copy) {
+        // A fresh working copy, made on the next lease; the clones it is
+        // made from are kept (bound into null handles, not copied).
+        auto fresh = std::make_unique<ReusableDocument>();
+        fresh->pristine = held_->pristine;
+        fresh->shared_prices = held_->shared_prices;
+        fresh->have_pristine = true;
+        held_ = std::move(fresh);
+      } else {
+        restore_overridden(held_->root, held_->pristine, overrides_);
+        restore_overridden(held_->root, held_->pristine, base_overrides_);
       }
       std::lock_guard<std::mutex> lock(pool_.mutex);
       pool_.documents.push_back(std::move(held_));
@@ -304,8 +371,6 @@ class DocumentLease {
 
  private:
   DocumentPool& pool_;
-  std::mutex& clone_mutex_;
-  const YAML::Node& pristine_;
   const std::vector<Override>& base_overrides_;
   const std::vector<Override>& overrides_;
   std::unique_ptr<ReusableDocument> held_;
@@ -321,7 +386,11 @@ CaseFigures PreparedCase::evaluate(const std::vector<Override>& overrides) const
   apply_overrides(copy.root, overrides);
   // The evaluation (and the case, which holds the document) ends before the
   // lease gives the copy back.
-  return evaluate_document(copy, *state_->catalogue, state_->price_file ? &*state_->price_file : nullptr, path_)
+  SettingsCache cache;
+  if (state_->base_leaves_cost_settings_alone && leaves_cost_settings_alone(overrides))
+    cache = {&state_->settings_mutex, &state_->cost_settings};
+  return evaluate_document(copy, *state_->catalogue, state_->price_file ? &*state_->price_file : nullptr, path_,
+                           cache)
       .figures;
 }
 

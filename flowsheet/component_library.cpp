@@ -2,7 +2,9 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 
+#include "flowsheet/elements.hpp"
 #include "flowsheet/pure_properties.hpp"
 #include "flowsheet/yaml_reader.hpp"
 
@@ -443,6 +445,22 @@ ComponentSet::ComponentSet(std::vector<Component> components, std::vector<NrtlPa
   }
   for (std::size_t a = 0; a < in_pair.size(); ++a)
     if (in_pair[a]) nrtl_index_.paired.push_back(a);
+
+  for (const Component& c : components_)
+    for (const auto& entry : c.formula) element_table_.symbols.push_back(entry.first);
+  std::sort(element_table_.symbols.begin(), element_table_.symbols.end());
+  auto& symbols = element_table_.symbols;
+  symbols.erase(std::unique(symbols.begin(), symbols.end()), symbols.end());
+  for (const Component& c : components_) {
+    auto& shares = element_table_.by_component.emplace_back();
+    for (const auto& [symbol, count] : c.formula) {
+      const auto at = std::lower_bound(symbols.begin(), symbols.end(), symbol) - symbols.begin();
+      // The loader accepts only known symbols; NaN would surface in the
+      // finite check rather than pass unnoticed.
+      const double weight = standard_atomic_weight(symbol).value_or(std::numeric_limits<double>::quiet_NaN());
+      shares.push_back({static_cast<std::size_t>(at), count * weight});
+    }
+  }
 }
 
 std::optional<std::size_t> ComponentSet::index_of(std::string_view id) const {

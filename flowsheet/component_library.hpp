@@ -76,6 +76,18 @@ struct NrtlIndex {
   std::vector<std::size_t> paired;   // member positions that are in at least one pair, ascending
 };
 
+// The elements of a component set and each component's share of them,
+// resolved once so that an element balance looks up no atomic weights
+// (Stream::element_masses).
+struct ElementTable {
+  struct Share {
+    std::size_t element = 0;       // position in `symbols`
+    double kg_per_mol = 0.0;       // atom count x standard atomic weight
+  };
+  std::vector<std::string> symbols;             // every element of the set, in alphabetical order
+  std::vector<std::vector<Share>> by_component; // one list per component, in set order
+};
+
 // The components a case uses, in a fixed order that indexes stream vectors.
 class ComponentSet {
  public:
@@ -91,6 +103,7 @@ class ComponentSet {
   [[nodiscard]] std::size_t require(std::string_view id) const;
   [[nodiscard]] const std::vector<NrtlPair>& nrtl_pairs() const { return nrtl_; }
   [[nodiscard]] const NrtlIndex& nrtl_index() const { return nrtl_index_; }
+  [[nodiscard]] const ElementTable& element_table() const { return element_table_; }
   [[nodiscard]] const FloryHugginsPair* find_flory_huggins(std::string_view polymer, std::string_view solvent) const;
 
  private:
@@ -98,6 +111,7 @@ class ComponentSet {
   std::vector<NrtlPair> nrtl_;
   std::vector<FloryHugginsPair> flory_huggins_;
   NrtlIndex nrtl_index_;  // derived from the two above in the constructor
+  ElementTable element_table_;  // derived from the formulas in the constructor
 };
 
 // Builds the set of components `ids` from a library, with the binary data

@@ -54,15 +54,34 @@ void DiagnosticList::throw_if_errors() const {
   if (!errors.empty()) throw InputError(std::move(errors));
 }
 
-Warnings::Warnings(const Warnings& other) : messages_(other.messages()) {}
+Warnings::Warnings(const Warnings& other) {
+  std::lock_guard lock(other.mutex_);
+  messages_ = other.messages_;
+  asked_ = other.asked_;
+}
 
 Warnings& Warnings::operator=(const Warnings& other) {
   if (this != &other) {
-    auto copy = other.messages();
+    std::vector<std::string> messages;
+    std::vector<Asked> asked;
+    {
+      std::lock_guard lock(other.mutex_);
+      messages = other.messages_;
+      asked = other.asked_;
+    }
     std::lock_guard lock(mutex_);
-    messages_ = std::move(copy);
+    messages_ = std::move(messages);
+    asked_ = std::move(asked);
   }
   return *this;
+}
+
+bool Warnings::first_time(std::string_view subject, const char* topic, int variant) {
+  std::lock_guard lock(mutex_);
+  for (const Asked& a : asked_)
+    if (a.topic == topic && a.variant == variant && a.subject == subject) return false;
+  asked_.push_back({std::string(subject), topic, variant});
+  return true;
 }
 
 void Warnings::add(std::string message) {

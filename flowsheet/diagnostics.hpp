@@ -9,6 +9,7 @@
 #include <mutex>
 #include <stdexcept>
 #include <string>
+#include <string_view>
 #include <vector>
 
 namespace unchain {
@@ -80,12 +81,25 @@ class Warnings {
   Warnings(const Warnings& other);
   Warnings& operator=(const Warnings& other);
   void add(std::string message);
+  // True the first time (subject, topic, variant) is asked about, false
+  // after. A caller whose message follows from those three alone (a
+  // component, a correlation, a side of its range) asks first and formats
+  // the message only once: a solve checks ranges hundreds of thousands of
+  // times, nearly always with a message the sink already holds. `topic`
+  // is compared by address, so pass a string literal.
+  [[nodiscard]] bool first_time(std::string_view subject, const char* topic, int variant);
   [[nodiscard]] std::vector<std::string> messages() const;
   [[nodiscard]] std::size_t size() const;
 
  private:
+  struct Asked {
+    std::string subject;
+    const char* topic;
+    int variant;
+  };
   mutable std::mutex mutex_;
   std::vector<std::string> messages_;
+  std::vector<Asked> asked_;
 };
 
 }  // namespace unchain

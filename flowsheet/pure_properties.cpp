@@ -16,6 +16,8 @@ namespace {
 void check_range(const Component& c, const char* property, const TemperatureRange& range, double T_K,
                  Warnings* warnings) {
   if (warnings == nullptr || range.contains(T_K)) return;
+  const bool below = T_K < range.low_K;
+  if (!warnings->first_time(c.id, property, below ? 0 : 1)) return;  // its message is held already
   // "%.5g" is what a stream with precision 5 writes; snprintf spares the
   // stream's set-up, which the solve pays for on every out-of-range call.
   char low[32], high[32];
@@ -28,7 +30,7 @@ void check_range(const Component& c, const char* property, const TemperatureRang
   message += low;
   message += " to ";
   message += high;
-  message += T_K < range.low_K ? " K (below it; extrapolated)" : " K (above it; extrapolated)";
+  message += below ? " K (below it; extrapolated)" : " K (above it; extrapolated)";
   warnings->add(std::move(message));
 }
 

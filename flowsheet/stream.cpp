@@ -81,12 +81,15 @@ Eigen::VectorXd Stream::phase_mole_fractions(Phase phase) const {
 }
 
 ElementCounts Stream::element_masses() const {
-  ElementCounts out;
+  if (components_ == nullptr) return {};  // a default-constructed stream holds nothing
+  const ElementTable& table = components_->element_table();
+  std::vector<double> sums(table.symbols.size(), 0.0);
   const Eigen::VectorXd moles = component_moles();
-  for (std::size_t i = 0; i < size(); ++i) {
-    for (const auto& [symbol, count] : (*components_)[i].formula)
-      out[symbol] += moles[static_cast<Eigen::Index>(i)] * count * *standard_atomic_weight(symbol);
-  }
+  for (std::size_t i = 0; i < size(); ++i)
+    for (const ElementTable::Share& share : table.by_component[i])
+      sums[share.element] += moles[static_cast<Eigen::Index>(i)] * share.kg_per_mol;
+  ElementCounts out;
+  for (std::size_t e = 0; e < sums.size(); ++e) out.emplace_hint(out.end(), table.symbols[e], sums[e]);
   return out;
 }
 

@@ -78,6 +78,27 @@ TEST_CASE("case study: evaluate is safe and identical on several threads") {
   }
 }
 
+TEST_CASE("case study: cost settings read once are reused only where the overrides leave them alone") {
+  const PreparedCase prepared(heat_case);
+  // A price override leaves accounting, capital and economics alone: the
+  // settings read by the first evaluation serve the second, and the figures
+  // are those of an evaluation that reads everything afresh.
+  const auto base = prepared.evaluate();
+  const auto priced = prepared.evaluate({{"prices.labour_rate", "35 USD/h"}});
+  const auto fresh = prepared.evaluate_full({{"prices.labour_rate", "35 USD/h"}}).figures;
+  REQUIRE(priced.figures.size() == fresh.figures.size());
+  for (std::size_t k = 0; k < fresh.figures.size(); ++k) CHECK(priced.figures[k].value == fresh.figures[k].value);
+  // An economics override has them read again: the NPV moves with the rate
+  // (8 % in the case) ...
+  const auto discounted = prepared.evaluate({{"economics.discount_rate", "0.2"}});
+  const auto discounted_fresh = prepared.evaluate_full({{"economics.discount_rate", "0.2"}}).figures;
+  REQUIRE(base.value("npv").has_value());
+  CHECK(discounted.value("npv").value() != doctest::Approx(base.value("npv").value()).epsilon(1e-6));
+  CHECK(discounted.value("npv").value() == discounted_fresh.value("npv").value());
+  // ... and does not leave its settings behind for the evaluations after it.
+  CHECK(prepared.evaluate().value("npv").value() == base.value("npv").value());
+}
+
 TEST_CASE("case study: a bad override value or path is an InputError") {
   const PreparedCase prepared(heat_case);
   CHECK_THROWS_AS(prepared.evaluate({{"prices.labour_rate", "40 kg"}}), InputError);
@@ -106,6 +127,32 @@ TEST_CASE("case study: a price given only in the shared price file can be overri
   CHECK_FALSE(missing_case_path(prepared.document(), prepared.path(), "prices.labour_rate"));
   CHECK_FALSE(missing_case_path(prepared.document(), prepared.path(), "prices.products.styrene.0.price"));
   CHECK(missing_case_path(prepared.document(), prepared.path(), "prices.labour_rat").has_value());
+}
+
+TEST_CASE("case study: reused copies give each evaluation its own overrides, over many uses and threads") {
+  // evaluate() restores a pooled copy after each use and makes it afresh
+  // after some uses. An electricity price that only the shared file gives
+  // is written into the case's prices by the override and must be removed
+  // again. 48 evaluations on 2 threads pass the refresh several times; each
+  // must give what a fresh copy gives.
+  const PreparedCase prepared(shared_prices_case);
+  const std::vector<Override> dearer{{"prices.electricity", "0.60 USD/kWh"}};
+  const double base = prepared.evaluate_full().figures.value("net_cost_per_basis").value();
+  const double repriced = prepared.evaluate_full(dearer).figures.value("net_cost_per_basis").value();
+  REQUIRE(repriced - base > 1e-3);  // 7 mUSD: the heater's electricity: the override moves the figure checked
+  auto run = [&](int first) {
+    std::vector<double> off;
+    for (int i = first; i < first + 24; ++i) {
+      const bool priced = i % 3 == 0;
+      const double got = (priced ? prepared.evaluate(dearer) : prepared.evaluate()).value("net_cost_per_basis").value();
+      off.push_back(got - (priced ? repriced : base));
+    }
+    return off;
+  };
+  auto other = std::async(std::launch::async, run, 1);
+  const auto mine = run(0);
+  for (const double d : mine) CHECK(d == 0.0);
+  for (const double d : other.get()) CHECK(d == 0.0);
 }
 
 TEST_CASE("case study: a path that names nothing is explained with a suggestion") {

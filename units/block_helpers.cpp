@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <sstream>
 
 #include "flowsheet/diagnostics.hpp"
@@ -263,19 +264,19 @@ std::string flammable_vapour_caution(const std::string& where, const std::vector
   return text.str();
 }
 
+// snprintf writes what a stream with the same precision writes ("%.1f" is
+// fixed with precision 1, "%.*g" the default float field) without a
+// stream's set-up: the blocks format their cautions on every solve.
 std::string format_celsius(Temperature T) {
-  std::ostringstream text;
-  text.setf(std::ios::fixed);
-  text.precision(1);
-  text << in_celsius(T) << " degC";
-  return text.str();
+  char text[400];  // "%.1f" of the largest double has 309 digits before the point
+  std::snprintf(text, sizeof text, "%.1f degC", in_celsius(T));
+  return text;
 }
 
 std::string format_number(double value, int significant) {
-  std::ostringstream text;
-  text.precision(significant);
-  text << value;
-  return text.str();
+  char text[64];  // "%.*g" stays within about 25 characters up to 17 digits
+  std::snprintf(text, sizeof text, "%.*g", std::clamp(significant, 1, 30), value);
+  return text;
 }
 
 }  // namespace unchain::units

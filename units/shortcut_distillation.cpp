@@ -146,8 +146,10 @@ ShortcutDesign design_shortcut_column(const KValueModel& model, const Eigen::Vec
   // that the non-key distribution in turn sets.
   Eigen::VectorXd alpha = Eigen::VectorXd::Zero(n);
   // Each Fenske pass starts its dew and bubble points from the last pass:
-  // the compositions move little between passes.
-  std::optional<Temperature> top_guess, bottom_guess;
+  // the compositions move little between passes. The first starts from the
+  // feed's bubble point, which lies between the two (without a start the
+  // dew point is found by a bracketing search, several times the work).
+  std::optional<Temperature> top_guess = feed_bubble.temperature, bottom_guess = feed_bubble.temperature;
   for (int iteration = 1;; ++iteration) {
     if (iteration > max_fenske_iterations)
       throw ConvergenceError("Fenske: the relative volatilities did not settle with the product compositions");

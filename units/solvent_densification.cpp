@@ -1,7 +1,10 @@
 #include "units/solvent_densification.hpp"
 
+#include <boost/math/tools/toms748_solve.hpp>
+
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
 #include <memory>
 #include <optional>
 
@@ -236,27 +239,47 @@ void SolventDensification::compute(const BlockContext& context, const BlockPorts
 
   // Adiabatic mixing, no heat of mixing: find T with H_out(T) = H_in.
   // H_out rises with T (sensible heat and solvent evaporation), so the
-  // root is bracketed and found by bisection. Trial temperatures may lie
-  // outside correlation ranges, so their warnings are not kept.
+  // root is bracketed, then found by TOMS 748 (Alefeld, Potra and Shi,
+  // 1995) to 50 bits: about ten trials where bisection to 1e-10 K took
+  // forty. Trial temperatures may lie outside correlation ranges, so
+  // their warnings are not kept.
   const double H_in = to_si(foam.enthalpy(&context.warnings)) + to_si(used.enthalpy(&context.warnings));
   auto residual = [&](double T_K) {
     const MixedOutlets o = outlets_at(T_K, nullptr);
-    return to_si(o.gel.enthalpy()) + to_si(o.vent.enthalpy()) - H_in;
+    const double r = to_si(o.gel.enthalpy()) + to_si(o.vent.enthalpy()) - H_in;
+    if (!std::isfinite(r))
+      throw ModelError(who + ": the outlet enthalpy is not finite at " + format_celsius(kelvin(T_K)));
+    return r;
   };
   double T_high = std::max(in_kelvin(foam.temperature()), in_kelvin(used.temperature()));
   double T_low = std::min(in_kelvin(foam.temperature()), in_kelvin(used.temperature()));
-  for (int expand = 0; residual(T_high) < 0.0; ++expand) {
+  double r_high = residual(T_high);
+  double r_low = T_low == T_high ? r_high : residual(T_low);
+  for (int expand = 0; r_high < 0.0; ++expand) {
     if (expand > 20) throw ModelError(who + ": no mixed temperature found");
+    T_low = T_high;  // below the root: a valid lower end
+    r_low = r_high;
     T_high += 5.0;  // only when solvent vapour fed in condenses into the gel
+    r_high = residual(T_high);
   }
-  for (int expand = 0; residual(T_low) > 0.0; ++expand) {
+  for (int expand = 0; r_low > 0.0; ++expand) {
     if (expand > 20 || T_low < 100.0) throw ModelError(who + ": no mixed temperature found");
+    T_high = T_low;
+    r_high = r_low;
     T_low -= 10.0;
+    r_low = residual(T_low);
   }
-  for (int iteration = 0; iteration < 200 && T_high - T_low > 1e-10; ++iteration) {
-    const double mid = 0.5 * (T_low + T_high);
-    if (residual(mid) > 0.0) T_high = mid;
-    else T_low = mid;
+  if (r_low == 0.0) {
+    T_high = T_low;
+  } else if (r_high == 0.0) {
+    T_low = T_high;
+  } else {
+    std::uintmax_t iterations = 200;
+    const auto root = boost::math::tools::toms748_solve(residual, T_low, T_high, r_low, r_high,
+                                                        boost::math::tools::eps_tolerance<double>(50), iterations);
+    if (iterations >= 200) throw ConvergenceError(who + ": the mixed temperature did not converge");
+    T_low = root.first;
+    T_high = root.second;
   }
   const double T_mix = 0.5 * (T_low + T_high);
   MixedOutlets mixed = outlets_at(T_mix, &context.warnings);
