@@ -16,6 +16,7 @@
 #include <charconv>
 #include <filesystem>
 #include <mutex>
+#include <thread>
 
 #include "costs/closure_check.hpp"
 #include "units/block_registry.hpp"
@@ -115,6 +116,10 @@ struct ReusableDocument {
   bool have_pristine = false;
   bool have_root = false;
   int uses = 0;
+  // The thread that last used it: a thread takes back its own copy, whose
+  // nodes its own allocator arena holds, so that replacing them frees no
+  // memory of another thread's arena (a lock the two threads would share).
+  std::thread::id last_user;
 };
 
 // Held by pointer: assigning a YAML::Node to another writes through to the
@@ -176,16 +181,20 @@ void bring_in_shared_prices(YAML::Node& root, const YAML::Node& shared, const st
 
 // True when no override can change what the cost settings are read from:
 // each one sets a price (prices are read on every evaluation) or a value
-// inside a block or a stream (three parts or more, so no block, stream or
-// component is added, removed or renamed, which the settings' checks see).
-// Anything else (the capital, accounting or economics sections, the case's
-// currency, a whole block) has the settings read again.
+// inside a block or a feed (three parts or more, and not a block's type or
+// its inlets and outlets, so no block, stream or component is added,
+// removed or renamed, which the settings' checks see). Anything else (the
+// capital, accounting or economics sections, the case's currency, a whole
+// block or feed, a block's connections) has the settings read again.
 bool leaves_cost_settings_alone(const std::vector<Override>& overrides) {
   for (const auto& o : overrides) {
     const auto parts = split_override_path(o.path);
     if (parts.empty()) return false;
     if (parts[0] == "prices") continue;
-    if ((parts[0] == "blocks" || parts[0] == "streams") && parts.size() >= 3) continue;
+    if (parts[0] == "feeds" && parts.size() >= 3) continue;
+    if (parts[0] == "blocks" && parts.size() >= 3 && parts[2] != "type" && parts[2] != "inlets" &&
+        parts[2] != "outlets")
+      continue;
     return false;
   }
   return true;
@@ -325,8 +334,12 @@ class DocumentLease {
       // At most as many copies as evaluations ever ran at once.
       std::lock_guard<std::mutex> lock(pool_.mutex);
       if (!pool_.documents.empty()) {
-        held_ = std::move(pool_.documents.back());
-        pool_.documents.pop_back();
+        auto& docs = pool_.documents;
+        auto own = std::find_if(docs.begin(), docs.end(),
+                                [](const auto& d) { return d->last_user == std::this_thread::get_id(); });
+        if (own == docs.end()) own = docs.end() - 1;
+        held_ = std::move(*own);
+        docs.erase(own);
       } else {
         held_ = std::make_unique<ReusableDocument>();
       }
@@ -356,11 +369,12 @@ class DocumentLease {
         fresh->pristine = held_->pristine;
         fresh->shared_prices = held_->shared_prices;
         fresh->have_pristine = true;
-        held_ = std::move(fresh);
+        held_ = std::move(fresh);  // the old working copy is freed here, by the thread that used it
       } else {
         restore_overridden(held_->root, held_->pristine, overrides_);
         restore_overridden(held_->root, held_->pristine, base_overrides_);
       }
+      held_->last_user = std::this_thread::get_id();
       std::lock_guard<std::mutex> lock(pool_.mutex);
       pool_.documents.push_back(std::move(held_));
     } catch (...) {

@@ -97,6 +97,9 @@ TEST_CASE("case study: cost settings read once are reused only where the overrid
   CHECK(discounted.value("npv").value() == discounted_fresh.value("npv").value());
   // ... and does not leave its settings behind for the evaluations after it.
   CHECK(prepared.evaluate().value("npv").value() == base.value("npv").value());
+  // Renaming the monomer stream through a block's outlets is checked against
+  // the accounting section again, not passed by the settings read before.
+  CHECK_THROWS_AS(prepared.evaluate({{"blocks.warm.outlets.product", "elsewhere"}}), InputError);
 }
 
 TEST_CASE("case study: a bad override value or path is an InputError") {
