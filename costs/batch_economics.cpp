@@ -333,15 +333,15 @@ CostReport evaluate_case_costs(const Case& c, const SolveResult& result, const S
                                std::shared_ptr<const CostSettings>& settings) {
   DiagnosticList diagnostics;
   const PriceBook prices = read_price_book(c.document, c.file, c.currency, diagnostics, shared_prices);
+  std::shared_ptr<CostSettings> read;
   if (!settings) {
-    auto read = std::make_shared<CostSettings>();
+    read = std::make_shared<CostSettings>();
     read->accounting = read_accounting(c, diagnostics);
     read->capital = read_capital_settings(c, diagnostics);
     read->economics = read_cash_flow_settings(c, diagnostics);
-    diagnostics.throw_if_errors();
-    settings = std::move(read);
   }
   diagnostics.throw_if_errors();
+  if (read) settings = std::move(read);
   const CapitalSettings& capital = settings->capital;
   const CashFlowSettings& economics = settings->economics;
   CostReport report = evaluate_costs(c, result, prices, settings->accounting, capital);

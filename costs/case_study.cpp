@@ -122,6 +122,24 @@ struct ReusableDocument {
   std::thread::id last_user;
 };
 
+// The cost settings one study's evaluations share: empty until the first
+// of them has read its own.
+class SharedCostSettings {
+ public:
+  [[nodiscard]] std::shared_ptr<const CostSettings> get() const {
+    std::lock_guard<std::mutex> lock(mutex_);
+    return value_;
+  }
+  void offer(std::shared_ptr<const CostSettings> read) {
+    std::lock_guard<std::mutex> lock(mutex_);
+    if (!value_) value_ = std::move(read);
+  }
+
+ private:
+  mutable std::mutex mutex_;
+  std::shared_ptr<const CostSettings> value_;
+};
+
 // Held by pointer: assigning a YAML::Node to another writes through to the
 // tree it refers to, so the documents must never be moved by assignment.
 struct DocumentPool {
@@ -145,8 +163,7 @@ struct PreparedCase::State {
   // The cost settings (accounting, capital, economics) of the case with
   // the base overrides: read by the first evaluation whose overrides leave
   // them alone (leaves_cost_settings_alone), reused by the later ones.
-  mutable std::mutex settings_mutex;
-  mutable std::shared_ptr<const CostSettings> cost_settings;
+  mutable SharedCostSettings cost_settings;
   bool base_leaves_cost_settings_alone = false;
 };
 
@@ -234,17 +251,12 @@ const YAML::Node& PreparedCase::document() const { return state_->document.root;
 
 namespace {
 
-// Where evaluate_document takes the cost settings from: the case itself
-// (a null cache), or a cache shared by the evaluations of one study.
-struct SettingsCache {
-  std::mutex* mutex = nullptr;
-  std::shared_ptr<const CostSettings>* settings = nullptr;
-};
-
-// Load, solve, check and cost a document with its overrides applied.
+// Load, solve, check and cost a document with its overrides applied. The
+// cost settings come from the case itself, or from `shared` when given
+// (the evaluations of one study whose overrides leave them alone).
 Evaluation evaluate_document(const YamlDocument& document, const units::BlockRegistry& catalogue,
                              const SharedPriceFile* price_file, const std::string& path,
-                             SettingsCache cache = {}) {
+                             SharedCostSettings* shared = nullptr) {
   auto loaded = std::make_shared<Case>(load_case(document, catalogue));
   Evaluation e;
   e.result = solve(*loaded);
@@ -255,21 +267,9 @@ Evaluation evaluate_document(const YamlDocument& document, const units::BlockReg
     if (problems.size() > 1) text += " (and " + std::to_string(problems.size() - 1) + " more)";
     throw ConvergenceError(text);
   }
-  if (cache.settings != nullptr) {
-    std::shared_ptr<const CostSettings> settings;
-    {
-      std::lock_guard<std::mutex> lock(*cache.mutex);
-      settings = *cache.settings;
-    }
-    const bool first = settings == nullptr;
-    e.report = evaluate_case_costs(*loaded, e.result, price_file, settings);
-    if (first) {
-      std::lock_guard<std::mutex> lock(*cache.mutex);
-      if (*cache.settings == nullptr) *cache.settings = settings;
-    }
-  } else {
-    e.report = evaluate_case_costs(*loaded, e.result, price_file);
-  }
+  std::shared_ptr<const CostSettings> settings = shared != nullptr ? shared->get() : nullptr;
+  e.report = evaluate_case_costs(*loaded, e.result, price_file, settings);
+  if (shared != nullptr) shared->offer(settings);
   e.figures = key_figures(*loaded, e.report);
   e.loaded = std::move(loaded);
   return e;
@@ -400,11 +400,11 @@ CaseFigures PreparedCase::evaluate(const std::vector<Override>& overrides) const
   apply_overrides(copy.root, overrides);
   // The evaluation (and the case, which holds the document) ends before the
   // lease gives the copy back.
-  SettingsCache cache;
-  if (state_->base_leaves_cost_settings_alone && leaves_cost_settings_alone(overrides))
-    cache = {&state_->settings_mutex, &state_->cost_settings};
+  SharedCostSettings* shared = state_->base_leaves_cost_settings_alone && leaves_cost_settings_alone(overrides)
+                                  ? &state_->cost_settings
+                                  : nullptr;
   return evaluate_document(copy, *state_->catalogue, state_->price_file ? &*state_->price_file : nullptr, path_,
-                           cache)
+                           shared)
       .figures;
 }
 

@@ -1,15 +1,13 @@
 #include "units/solvent_densification.hpp"
 
-#include <boost/math/tools/toms748_solve.hpp>
-
 #include <algorithm>
 #include <cmath>
-#include <cstdint>
 #include <memory>
 #include <optional>
 
 #include "flowsheet/pure_properties.hpp"
 #include "flowsheet/thermo/flory_huggins.hpp"
+#include "flowsheet/thermo/vle_support.hpp"
 #include "units/block_helpers.hpp"
 #include "units/block_registry.hpp"
 #include "units/hansen.hpp"
@@ -239,49 +237,22 @@ void SolventDensification::compute(const BlockContext& context, const BlockPorts
 
   // Adiabatic mixing, no heat of mixing: find T with H_out(T) = H_in.
   // H_out rises with T (sensible heat and solvent evaporation), so the
-  // root is bracketed, then found by TOMS 748 (Alefeld, Potra and Shi,
-  // 1995) to 50 bits: about ten trials where bisection to 1e-10 K took
-  // forty. Trial temperatures may lie outside correlation ranges, so
-  // their warnings are not kept.
+  // root is bracketed from the two inlet temperatures outwards and closed
+  // by TOMS 748, as the bubble and dew points are (vle_support.hpp). Trial
+  // temperatures may lie outside correlation ranges, so their warnings are
+  // not kept.
   const double H_in = to_si(foam.enthalpy(&context.warnings)) + to_si(used.enthalpy(&context.warnings));
   auto residual = [&](double T_K) {
     const MixedOutlets o = outlets_at(T_K, nullptr);
     const double r = to_si(o.gel.enthalpy()) + to_si(o.vent.enthalpy()) - H_in;
-    if (!std::isfinite(r))
+    if (!std::isfinite(r))  // the root search checks its bracket ends only
       throw ModelError(who + ": the outlet enthalpy is not finite at " + format_celsius(kelvin(T_K)));
     return r;
   };
-  double T_high = std::max(in_kelvin(foam.temperature()), in_kelvin(used.temperature()));
-  double T_low = std::min(in_kelvin(foam.temperature()), in_kelvin(used.temperature()));
-  double r_high = residual(T_high);
-  double r_low = T_low == T_high ? r_high : residual(T_low);
-  for (int expand = 0; r_high < 0.0; ++expand) {
-    if (expand > 20) throw ModelError(who + ": no mixed temperature found");
-    T_low = T_high;  // below the root: a valid lower end
-    r_low = r_high;
-    T_high += 5.0;  // only when solvent vapour fed in condenses into the gel
-    r_high = residual(T_high);
-  }
-  for (int expand = 0; r_low > 0.0; ++expand) {
-    if (expand > 20 || T_low < 100.0) throw ModelError(who + ": no mixed temperature found");
-    T_high = T_low;
-    r_high = r_low;
-    T_low -= 10.0;
-    r_low = residual(T_low);
-  }
-  if (r_low == 0.0) {
-    T_high = T_low;
-  } else if (r_high == 0.0) {
-    T_low = T_high;
-  } else {
-    std::uintmax_t iterations = 200;
-    const auto root = boost::math::tools::toms748_solve(residual, T_low, T_high, r_low, r_high,
-                                                        boost::math::tools::eps_tolerance<double>(50), iterations);
-    if (iterations >= 200) throw ConvergenceError(who + ": the mixed temperature did not converge");
-    T_low = root.first;
-    T_high = root.second;
-  }
-  const double T_mix = 0.5 * (T_low + T_high);
+  const vle::Bracket root =
+      vle::increasing_temperature_root(residual, in_kelvin(foam.temperature()), in_kelvin(used.temperature()),
+                                       who + ": mixed temperature");
+  const double T_mix = root.middle();
   MixedOutlets mixed = outlets_at(T_mix, &context.warnings);
   ports.outlet("gel") = mixed.gel;
   ports.outlet("vent") = mixed.vent;
